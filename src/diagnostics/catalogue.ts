@@ -1,0 +1,74 @@
+// Every diagnostic code gatewright can print, in one place. Codes are stable: never reuse or
+// renumber one; retire a code by leaving it here with `retired: true`.
+// GW1xxx: reading input (lexing, syntax)   GW2xxx: names, declarations, structure
+// GW3xxx: logic (loops, equivalence)       GW4xxx: mapping
+// GW5xxx: electrical sizing and ratings    GW6xxx: options, parts and data files
+// GW7xxx: simulation                       GW8xxx: output files
+// GW9xxx: internal errors (a bug in gatewright)
+import type { Severity } from "./diagnostic.js";
+
+export interface CatalogueEntry {
+  severity: Severity;
+  title: string;
+  retired?: boolean;
+}
+
+export const CATALOGUE = {
+  GW1001: { severity: "error", title: "unexpected character" },
+  GW1002: { severity: "error", title: "syntax error" },
+  GW1003: { severity: "error", title: "unexpected end of file" },
+  GW1004: { severity: "error", title: "unterminated comment" },
+  GW1005: { severity: "error", title: "unsupported construct" },
+  GW1006: { severity: "error", title: "input too deeply nested" },
+  GW1007: { severity: "error", title: "bad number or constant" },
+  GW1008: { severity: "error", title: "file is not text" },
+  GW1009: { severity: "note", title: "too many errors; stopped reading" },
+
+  GW2001: { severity: "error", title: "undefined name" },
+  GW2002: { severity: "error", title: "signal has more than one driver" },
+  GW2003: { severity: "error", title: "output never assigned" },
+  GW2004: { severity: "error", title: "assignment to an input" },
+  GW2005: { severity: "error", title: "name declared twice" },
+  GW2006: { severity: "warning", title: "input never used" },
+  GW2007: { severity: "warning", title: "signal never used" },
+  GW2008: { severity: "error", title: "no module to build" },
+  GW2009: { severity: "error", title: "unknown module" },
+  GW2010: { severity: "error", title: "module instantiates itself" },
+  GW2011: { severity: "error", title: "port connection mismatch" },
+  GW2012: { severity: "error", title: "bad gate primitive connection" },
+  GW2013: { severity: "error", title: "no inputs or outputs" },
+  GW2014: { severity: "error", title: "wire never driven" },
+  GW2015: { severity: "error", title: "bit-vector range or index out of range" },
+
+  GW3001: { severity: "note", title: "stored state found" },
+  GW3002: { severity: "warning", title: "equivalence check was partial" },
+  GW3003: { severity: "warning", title: "output is constant" },
+  GW3004: { severity: "error", title: "combinational loop cannot hold state" },
+
+  GW4001: { severity: "error", title: "fan-in limit too small" },
+
+  GW5001: { severity: "error", title: "no standard resistor values meet the constraints" },
+  GW5002: { severity: "warning", title: "part rating exceeded" },
+  GW5003: { severity: "warning", title: "high supply voltage" },
+  GW5004: { severity: "warning", title: "small saturation margin" },
+
+  GW6001: { severity: "error", title: "bad option value" },
+  GW6002: { severity: "error", title: "bad quantity or unit" },
+  GW6003: { severity: "error", title: "value out of range" },
+  GW6004: { severity: "error", title: "cannot read file" },
+  GW6005: { severity: "error", title: "bad parts or options file" },
+  GW6006: { severity: "error", title: "unknown resistor series" },
+  GW6007: { severity: "error", title: "unsupported input file type" },
+
+  GW7001: { severity: "error", title: "simulation failed" },
+  GW7002: { severity: "error", title: "simulated output disagrees with the logic" },
+  GW7003: { severity: "error", title: "simulator not available" },
+
+  GW8001: { severity: "error", title: "cannot write output" },
+  GW8002: { severity: "error", title: "refusing to overwrite a file gatewright did not write" },
+
+  GW9001: { severity: "error", title: "internal error" },
+  GW9002: { severity: "error", title: "internal error: mapped circuit differs from the logic" },
+} as const satisfies Record<string, CatalogueEntry>;
+
+export type DiagnosticCode = keyof typeof CATALOGUE;

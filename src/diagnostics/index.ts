@@ -1,0 +1,3 @@
+export * from "./diagnostic.js";
+export * from "./format.js";
+export { CATALOGUE, type DiagnosticCode, type CatalogueEntry } from "./catalogue.js";

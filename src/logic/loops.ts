@@ -1,0 +1,173 @@
+// Feedback: find the loops of a logic graph and choose the signals that store state.
+// A loop is cut at named signals only (every loop passes through an assigned signal), so the
+// stored state is named exactly as the source names it.
+import type { LogicGraph } from "./graph.js";
+
+export interface LoopAnalysis {
+  /** Node ids chosen as loop cut points (state signals), in ascending id order. */
+  cuts: number[];
+  /** Strongly connected groups of nodes that contain a loop, each listed by node id. */
+  groups: number[][];
+}
+
+/** Tarjan's strongly connected components, iterative. */
+export function stronglyConnected(g: LogicGraph): number[][] {
+  const n = g.nodes.length;
+  const index = new Int32Array(n).fill(-1);
+  const low = new Int32Array(n);
+  const onStack = new Uint8Array(n);
+  const stack: number[] = [];
+  const comps: number[][] = [];
+  let counter = 0;
+  const work: { v: number; i: number }[] = [];
+  for (let root = 0; root < n; root++) {
+    if (index[root] !== -1) continue;
+    work.push({ v: root, i: 0 });
+    index[root] = low[root] = counter++;
+    stack.push(root);
+    onStack[root] = 1;
+    while (work.length) {
+      const top = work[work.length - 1]!;
+      const fanins = g.nodes[top.v]!.fanins;
+      if (top.i < fanins.length) {
+        const w = fanins[top.i++]!;
+        if (index[w] === -1) {
+          index[w] = low[w] = counter++;
+          stack.push(w);
+          onStack[w] = 1;
+          work.push({ v: w, i: 0 });
+        } else if (onStack[w]) {
+          low[top.v] = Math.min(low[top.v]!, index[w]!);
+        }
+      } else {
+        work.pop();
+        if (work.length) {
+          const parent = work[work.length - 1]!.v;
+          low[parent] = Math.min(low[parent]!, low[top.v]!);
+        }
+        if (low[top.v] === index[top.v]) {
+          const comp: number[] = [];
+          let w: number;
+          do {
+            w = stack.pop()!;
+            onStack[w] = 0;
+            comp.push(w);
+          } while (w !== top.v);
+          comps.push(comp);
+        }
+      }
+    }
+  }
+  return comps;
+}
+
+/**
+ * Chooses loop cut points: within each loop group, repeatedly breaks a remaining cycle at a
+ * named node, preferring the signal assigned earliest in the source (then the lowest id).
+ */
+export function analyzeLoops(g: LogicGraph, preferred?: ReadonlySet<number>): LoopAnalysis {
+  const groups = stronglyConnected(g).filter(
+    (c) => c.length > 1 || g.nodes[c[0]!]!.fanins.includes(c[0]!),
+  );
+  const cuts = new Set<number>();
+  for (const group of groups) {
+    const inGroup = new Set(group);
+    // Named candidates in a stable order: preferred first, then source order.
+    const candidates = group
+      .filter((id) => g.nodes[id]!.name !== undefined)
+      .sort((a, b) => {
+        const pa = preferred?.has(a) ? 0 : 1;
+        const pb = preferred?.has(b) ? 0 : 1;
+        if (pa !== pb) return pa - pb;
+        const sa = g.nodes[a]!.span?.start ?? Infinity;
+        const sb = g.nodes[b]!.span?.start ?? Infinity;
+        return sa - sb || a - b;
+      });
+    for (const c of candidates) {
+      if (!hasCycle(g, inGroup, cuts)) break;
+      // Cut c only if c lies on a remaining cycle.
+      if (onCycle(g, c, inGroup, cuts)) cuts.add(c);
+    }
+    if (hasCycle(g, inGroup, cuts)) {
+      // Unnamed loop (cannot come from source text, only from a transformation): cut anywhere.
+      for (const id of group) {
+        if (!hasCycle(g, inGroup, cuts)) break;
+        if (onCycle(g, id, inGroup, cuts)) cuts.add(id);
+      }
+    }
+  }
+  return { cuts: [...cuts].sort((a, b) => a - b), groups };
+}
+
+function onCycle(g: LogicGraph, start: number, within: Set<number>, cuts: Set<number>): boolean {
+  // Is `start` reachable from itself through nodes of `within` that are not cut?
+  const seen = new Set<number>();
+  const stack = [...g.nodes[start]!.fanins];
+  while (stack.length) {
+    const v = stack.pop()!;
+    if (v === start) return true;
+    if (!within.has(v) || cuts.has(v) || seen.has(v)) continue;
+    seen.add(v);
+    stack.push(...g.nodes[v]!.fanins);
+  }
+  return false;
+}
+
+function hasCycle(g: LogicGraph, within: Set<number>, cuts: Set<number>): boolean {
+  // Kahn's algorithm on the sub-graph with cut nodes' fanin edges removed.
+  const indeg = new Map<number, number>();
+  for (const v of within) indeg.set(v, 0);
+  for (const v of within) {
+    if (cuts.has(v)) continue;
+    for (const f of g.nodes[v]!.fanins) if (within.has(f)) indeg.set(v, indeg.get(v)! + 1);
+  }
+  // Edge direction here: fanin f -> v. Count of v's in-group fanins.
+  const users = new Map<number, number[]>();
+  for (const v of within) {
+    if (cuts.has(v)) continue;
+    for (const f of g.nodes[v]!.fanins) if (within.has(f)) {
+      if (!users.has(f)) users.set(f, []);
+      users.get(f)!.push(v);
+    }
+  }
+  const queue = [...within].filter((v) => indeg.get(v) === 0);
+  let removed = 0;
+  while (queue.length) {
+    const v = queue.pop()!;
+    removed++;
+    for (const u of users.get(v) ?? []) {
+      const d = indeg.get(u)! - 1;
+      indeg.set(u, d);
+      if (d === 0) queue.push(u);
+    }
+  }
+  return removed < within.size;
+}
+
+/**
+ * Evaluation order of all nodes with the cut nodes' incoming loop edges ignored: every node
+ * comes after its fanins, except that a cut node's value is read from the state.
+ * Returns undefined if the graph still has a loop (cuts insufficient).
+ */
+export function evaluationOrder(g: LogicGraph, cuts: ReadonlySet<number>): number[] | undefined {
+  const n = g.nodes.length;
+  const indeg = new Int32Array(n);
+  const users: number[][] = g.nodes.map(() => []);
+  g.nodes.forEach((node, v) => {
+    if (cuts.has(v)) return;
+    for (const f of node.fanins) {
+      indeg[v]!++;
+      users[f]!.push(v);
+    }
+  });
+  const order: number[] = [];
+  const queue: number[] = [];
+  for (let v = 0; v < n; v++) if (indeg[v] === 0) queue.push(v);
+  let head = 0;
+  while (head < queue.length) {
+    const v = queue[head++]!;
+    order.push(v);
+    for (const u of users[v]!) if (--indeg[u]! === 0) queue.push(u);
+  }
+  return order.length === n ? order : undefined;
+}

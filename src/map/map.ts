@@ -1,0 +1,343 @@
+// Technology mapping onto DTL cells: every AND/OR/XOR/NOT of the optimized logic graph becomes
+// NAND-k and NOR-k cells, choosing per node and per polarity the cheaper realization by
+// dynamic programming over a part-count cost, with inverters shared. Loops are kept exactly as
+// written: each state signal becomes a net of the same name driven by the cell computing it.
+import { diag, type Diagnostic, type StageResult } from "../diagnostics/index.js";
+import type { LogicGraph } from "../logic/graph.js";
+import { evaluationOrder } from "../logic/loops.js";
+import type { CellFunction, CellInstance, CellNetlist, Net, NetDriver } from "./types.js";
+import { limitFanin } from "./fanin.js";
+
+export type CellChoice = "mixed" | "nand" | "nor";
+
+export interface MapOptions {
+  stateNames: readonly string[];
+  maxFanin: number;
+  /** Which cell functions may be used. `nand` and `nor` allow only that family (and its inverter). */
+  cells?: CellChoice;
+  /** Cost of one cell of a function and fan-in (default: part-count weights, see `partCost`). */
+  cellCost?: (fn: CellFunction, fanin: number) => number;
+}
+
+/** Default cost: a transistor counts as four parts, a diode or resistor as one (our weighting).
+ *  Basic NAND-k: k input diodes, two level-shift diodes, R_P, R_B, R_C, one transistor.
+ *  Basic NOR-k: k input diodes, one level-shift diode, R_B, R_C, one transistor. */
+export function partCost(fn: CellFunction, fanin: number): number {
+  return fn === "nand" ? 4 + fanin + 2 + 3 : 4 + fanin + 1 + 2;
+}
+
+type Pol = 0 | 1; // 0: the node's value, 1: its complement
+
+type Choice =
+  | { kind: "leaf" }
+  | { kind: "const"; value: 0 | 1 }
+  | { kind: "pass"; from: number; pol: Pol }
+  | { kind: "cell"; fn: CellFunction; operands: [number, Pol][] }
+  | { kind: "inv"; fn: CellFunction }
+  | { kind: "xor4"; fn: CellFunction; a: number; b: number };
+
+export function mapToCells(source: LogicGraph, opts: MapOptions): StageResult<CellNetlist> {
+  const diagnostics: Diagnostic[] = [];
+  if (!Number.isInteger(opts.maxFanin) || opts.maxFanin < 2) {
+    diagnostics.push(
+      diag("GW4001", `the fan-in limit must be at least 2 (got ${opts.maxFanin})`, undefined, {
+        hint: "two-input cells are the smallest that can build any logic",
+      }),
+    );
+    return { diagnostics };
+  }
+  const g = limitFanin(source, opts.stateNames, opts.maxFanin);
+  const cost = opts.cellCost ?? partCost;
+  const allow = opts.cells ?? "mixed";
+  const nandOk = allow !== "nor";
+  const norOk = allow !== "nand";
+  const stateSet = new Set(opts.stateNames);
+  const cutIds = new Set<number>();
+  g.nodes.forEach((n, id) => {
+    if (n.op === "buf" && n.name !== undefined && stateSet.has(n.name)) cutIds.add(id);
+  });
+  const order = evaluationOrder(g, cutIds);
+  if (!order) throw new Error("mapToCells: loop not broken at the state signals");
+
+  const invFn: CellFunction = !norOk ? "nand" : !nandOk ? "nor" : cost("nor", 1) <= cost("nand", 1) ? "nor" : "nand";
+  const invCost = cost(invFn, 1);
+  const INF = Number.POSITIVE_INFINITY;
+  const costOf: [number, number][] = g.nodes.map(() => [INF, INF]);
+  const choice: [Choice | undefined, Choice | undefined][] = g.nodes.map(() => [undefined, undefined]);
+
+  const consider = (id: number, pol: Pol, c: number, ch: Choice) => {
+    if (c < costOf[id]![pol]) {
+      costOf[id]![pol] = c;
+      choice[id]![pol] = ch;
+    }
+  };
+
+  for (const id of order) {
+    const n = g.nodes[id]!;
+    if (n.op === "input" || cutIds.has(id)) {
+      consider(id, 0, 0, { kind: "leaf" });
+    } else if (n.op === "const0" || n.op === "const1") {
+      const v = n.op === "const1" ? 1 : 0;
+      consider(id, 0, 0, { kind: "const", value: v });
+      consider(id, 1, 0, { kind: "const", value: v ? 0 : 1 });
+      continue;
+    } else if (n.op === "buf") {
+      const f = n.fanins[0]!;
+      consider(id, 0, costOf[f]![0], { kind: "pass", from: f, pol: 0 });
+      consider(id, 1, costOf[f]![1], { kind: "pass", from: f, pol: 1 });
+    } else if (n.op === "not") {
+      const f = n.fanins[0]!;
+      consider(id, 0, costOf[f]![1], { kind: "pass", from: f, pol: 1 });
+      consider(id, 1, costOf[f]![0], { kind: "pass", from: f, pol: 0 });
+    } else if (n.op === "and" || n.op === "or") {
+      const k = n.fanins.length;
+      const sumPos = n.fanins.reduce((s, f) => s + costOf[f]![0], 0);
+      const sumNeg = n.fanins.reduce((s, f) => s + costOf[f]![1], 0);
+      const pos: [number, Pol][] = n.fanins.map((f) => [f, 0]);
+      const neg: [number, Pol][] = n.fanins.map((f) => [f, 1]);
+      if (n.op === "and") {
+        // !AND(x) = NAND(x);  AND(x) = NOR(!x)
+        if (nandOk) consider(id, 1, cost("nand", k) + sumPos, { kind: "cell", fn: "nand", operands: pos });
+        if (norOk) consider(id, 0, cost("nor", k) + sumNeg, { kind: "cell", fn: "nor", operands: neg });
+      } else {
+        // !OR(x) = NOR(x);  OR(x) = NAND(!x)
+        if (norOk) consider(id, 1, cost("nor", k) + sumPos, { kind: "cell", fn: "nor", operands: pos });
+        if (nandOk) consider(id, 0, cost("nand", k) + sumNeg, { kind: "cell", fn: "nand", operands: neg });
+      }
+    } else if (n.op === "xor") {
+      const [a, b] = n.fanins as [number, number];
+      const base = costOf[a]![0] + costOf[b]![0];
+      if (nandOk) consider(id, 0, 4 * cost("nand", 2) + base, { kind: "xor4", fn: "nand", a, b });
+      if (norOk) consider(id, 1, 4 * cost("nor", 2) + base, { kind: "xor4", fn: "nor", a, b });
+    }
+    // Either polarity from the other through an inverter.
+    for (const pol of [0, 1] as const) {
+      const other = (1 - pol) as Pol;
+      consider(id, pol, costOf[id]![other] + invCost, { kind: "inv", fn: invFn });
+    }
+  }
+
+  // ----- realization -------------------------------------------------------------------------
+  const nets: Net[] = [];
+  const cells: CellInstance[] = [];
+  const sourceNames = new Set<string>();
+  for (const n of source.nodes) if (n.name !== undefined) sourceNames.add(n.name);
+  for (const p of source.outputs) sourceNames.add(p.name);
+  const usedNames = new Set<string>();
+  let genCounter = 0;
+  const uniqueName = (base?: string): [string, boolean] => {
+    if (base !== undefined && !usedNames.has(base)) {
+      usedNames.add(base);
+      return [base, true];
+    }
+    for (;;) {
+      const cand = base !== undefined ? `${base}_${++genCounter}` : `_n${++genCounter}`;
+      if (!usedNames.has(cand) && !sourceNames.has(cand)) {
+        usedNames.add(cand);
+        return [cand, false];
+      }
+    }
+  };
+  const newNet = (driver: NetDriver, name?: string, keepName = false): number => {
+    const [nm, named] = keepName ? [name!, true] : uniqueName(name);
+    if (keepName) usedNames.add(nm);
+    return nets.push({ index: nets.length, name: nm, named, driver, loads: [] }) - 1;
+  };
+  const addCell = (fn: CellFunction, inputs: number[], out?: number): number => {
+    const index = cells.length;
+    const output = out ?? newNet({ kind: "cell", cell: index });
+    nets[output]!.driver = { kind: "cell", cell: index };
+    cells.push({ index, fn, inputs, output });
+    inputs.forEach((net, pin) => nets[net]!.loads.push({ cell: index, pin }));
+    return output;
+  };
+
+  const memo: [number, number][] = g.nodes.map(() => [-1, -1]);
+  const netOfNode = (id: number): number => memo[id]![0];
+  // Input and state nets first: names exactly as in the source.
+  const inputs = g.inputs.map((p, port) => {
+    const net = newNet({ kind: "input", port }, p.name, true);
+    memo[p.node]![0] = net;
+    return net;
+  });
+  const stateNets: number[] = [];
+  for (const id of cutIds) {
+    const net = newNet({ kind: "tie", value: 0 }, g.nodes[id]!.name!, true); // driver bound below
+    memo[id]![0] = net;
+    stateNets.push(net);
+  }
+
+  // Which (node, polarity) pairs are needed: top-down over the choices.
+  const need: [boolean, boolean][] = g.nodes.map(() => [false, false]);
+  const roots: [number, Pol][] = [
+    ...g.outputs.map((p) => [p.node, 0] as [number, Pol]),
+    ...[...cutIds].map((id) => [g.nodes[id]!.fanins[0]!, 0] as [number, Pol]),
+  ];
+  const markStack = [...roots];
+  while (markStack.length) {
+    const [id, pol] = markStack.pop()!;
+    if (need[id]![pol]) continue;
+    need[id]![pol] = true;
+    const ch = choice[id]![pol]!;
+    switch (ch.kind) {
+      case "pass":
+        markStack.push([ch.from, ch.pol]);
+        break;
+      case "inv":
+        markStack.push([id, (1 - pol) as Pol]);
+        break;
+      case "cell":
+        markStack.push(...ch.operands);
+        break;
+      case "xor4":
+        markStack.push([ch.a, 0], [ch.b, 0]);
+        break;
+      default:
+        break;
+    }
+  }
+
+  const realize = (id: number, pol: Pol): number => {
+    const hit = memo[id]![pol];
+    if (hit >= 0) return hit;
+    const ch = choice[id]![pol]!;
+    const name = pol === 0 ? g.nodes[id]!.name : undefined;
+    let net: number;
+    switch (ch.kind) {
+      case "leaf":
+        throw new Error("leaf without a net");
+      case "const":
+        net = newNet({ kind: "tie", value: ch.value });
+        break;
+      case "pass":
+        net = memo[ch.from]![ch.pol];
+        if (net < 0) throw new Error("operand realized out of order");
+        break;
+      case "inv": {
+        const other = memo[id]![1 - pol]!;
+        if (other < 0) throw new Error("inverter operand realized out of order");
+        net = addCell(ch.fn, [other], newNet({ kind: "tie", value: 0 }, name));
+        break;
+      }
+      case "cell": {
+        const ins = ch.operands.map(([f, p]) => memo[f]![p]);
+        if (ins.some((x) => x < 0)) throw new Error("cell operand realized out of order");
+        net = addCell(ch.fn, ins, newNet({ kind: "tie", value: 0 }, name));
+        break;
+      }
+      case "xor4": {
+        const a = memo[ch.a]![0];
+        const b = memo[ch.b]![0];
+        const n1 = addCell(ch.fn, [a, b]);
+        const n2 = addCell(ch.fn, [a, n1]);
+        const n3 = addCell(ch.fn, [b, n1]);
+        net = addCell(ch.fn, [n2, n3], newNet({ kind: "tie", value: 0 }, name));
+        break;
+      }
+    }
+    memo[id]![pol] = net;
+    return net;
+  };
+  // Bottom-up in evaluation order; for each node the polarity realized directly first, so an
+  // inverter finds its operand.
+  for (const id of order) {
+    for (const pol of [0, 1] as const) {
+      if (!need[id]![pol] || memo[id]![pol] >= 0) continue;
+      const ch = choice[id]![pol]!;
+      if (ch.kind === "inv") {
+        const other = (1 - pol) as Pol;
+        if (memo[id]![other] < 0) realize(id, other);
+      }
+      realize(id, pol);
+    }
+  }
+
+  // ----- binding state signals and outputs onto their named nets -------------------------------
+  const reserved = new Set<number>([...inputs, ...stateNets]);
+  const bufferInto = (from: number, target: number) => {
+    const mid = addCell(invFn, [from]);
+    addCell(invFn, [mid], target);
+  };
+  const moveInto = (from: number, target: number) => {
+    // The net `from` is driven by a cell and is nobody's port: its driver and loads move to
+    // `target`, and `from` is left empty (removed below).
+    const src = nets[from]!;
+    const drv = src.driver as { kind: "cell"; cell: number };
+    cells[drv.cell]!.output = target;
+    nets[target]!.driver = { kind: "cell", cell: drv.cell };
+    for (const l of src.loads) {
+      cells[l.cell]!.inputs[l.pin] = target;
+      nets[target]!.loads.push(l);
+    }
+    src.loads = [];
+    src.driver = { kind: "tie", value: 0 };
+    (src as Net & { dead?: boolean }).dead = true;
+    for (const m of memo) for (const p of [0, 1] as const) if (m[p] === from) m[p] = target;
+  };
+  const bindOnto = (from: number, target: number) => {
+    const src = nets[from]!;
+    if (stateSet.has(src.name) && stateNets.includes(from)) bufferInto(from, target);
+    else if (src.driver.kind === "cell" && !reserved.has(from)) moveInto(from, target);
+    else if (src.driver.kind === "cell") {
+      // Duplicate the driving cell (cheaper than a buffer of two inverters).
+      const c = cells[src.driver.cell]!;
+      addCell(c.fn, [...c.inputs], target);
+    } else if (src.driver.kind === "tie") {
+      nets[target]!.driver = { ...src.driver };
+    } else bufferInto(from, target);
+    reserved.add(target);
+  };
+  for (const id of cutIds) {
+    const f = g.nodes[id]!.fanins[0]!;
+    bindOnto(memo[f]![0], memo[id]![0]);
+  }
+  const outputs: { name: string; net: number }[] = [];
+  g.outputs.forEach((p, i) => {
+    let net = memo[p.node]![0];
+    if (reserved.has(net)) {
+      if (nets[net]!.outputPort === undefined && nets[net]!.name === p.name) {
+        // A state signal that is also this output: the same net.
+      } else {
+        const target = newNet({ kind: "tie", value: 0 }, p.name, !usedNames.has(p.name));
+        bindOnto(net, target);
+        net = target;
+      }
+    } else {
+      // Rename the net to the output's name.
+      if (nets[net]!.name !== p.name) {
+        usedNames.delete(nets[net]!.name);
+        nets[net]!.name = p.name;
+        usedNames.add(p.name);
+      }
+      nets[net]!.named = true;
+      reserved.add(net);
+    }
+    nets[net]!.outputPort = i;
+    outputs.push({ name: p.name, net });
+  });
+
+  // ----- compaction: drop emptied nets, renumber -----------------------------------------------
+  const alive = nets.filter((n) => !(n as Net & { dead?: boolean }).dead);
+  const renumber = new Map<number, number>();
+  alive.forEach((n, i) => renumber.set(n.index, i));
+  const finalNets: Net[] = alive.map((n, i) => {
+    const x: Net = { index: i, name: n.name, named: n.named, driver: n.driver, loads: n.loads };
+    if (n.outputPort !== undefined) x.outputPort = n.outputPort;
+    return x;
+  });
+  for (const c of cells) {
+    c.inputs = c.inputs.map((x) => renumber.get(x)!);
+    c.output = renumber.get(c.output)!;
+  }
+  const netlist: CellNetlist = {
+    name: source.name,
+    inputs: inputs.map((x) => renumber.get(x)!),
+    outputs: outputs.map((o) => ({ name: o.name, net: renumber.get(o.net)! })),
+    nets: finalNets,
+    cells,
+    stateNets: stateNets.map((x) => renumber.get(x)!),
+    maxFanin: opts.maxFanin,
+  };
+  void netOfNode;
+  return { value: netlist, diagnostics };
+}

@@ -1,0 +1,212 @@
+// A logic-graph builder with structural hashing and local simplification: constants folded,
+// double inversions removed, duplicate and complementary operands resolved. Every optimization
+// pass rebuilds through it, so no pass can leave a trivially reducible node behind.
+import type { LogicGraph, LogicNode, LogicOp, Port } from "../logic/graph.js";
+import { evaluationOrder } from "../logic/loops.js";
+
+export class GraphBuilder {
+  readonly nodes: LogicNode[] = [];
+  private readonly table = new Map<string, number>();
+  private c0 = -1;
+  private c1 = -1;
+
+  input(name: string, span?: LogicNode["span"]): number {
+    const n: LogicNode = { op: "input", fanins: [], name };
+    if (span) n.span = span;
+    return this.nodes.push(n) - 1;
+  }
+
+  constant(v: 0 | 1): number {
+    if (v) return this.c1 >= 0 ? this.c1 : (this.c1 = this.nodes.push({ op: "const1", fanins: [] }) - 1);
+    return this.c0 >= 0 ? this.c0 : (this.c0 = this.nodes.push({ op: "const0", fanins: [] }) - 1);
+  }
+
+  /** A named buffer whose operand is bound later (a state signal in a loop). */
+  placeholder(name: string, span?: LogicNode["span"]): number {
+    const n: LogicNode = { op: "buf", fanins: [], name };
+    if (span) n.span = span;
+    return this.nodes.push(n) - 1;
+  }
+
+  bind(placeholder: number, operand: number): void {
+    this.nodes[placeholder]!.fanins = [operand];
+  }
+
+  isConst(id: number): 0 | 1 | undefined {
+    const op = this.nodes[id]!.op;
+    return op === "const0" ? 0 : op === "const1" ? 1 : undefined;
+  }
+
+  private hashed(op: LogicOp, fanins: number[]): number {
+    const key = op + ":" + fanins.join(",");
+    const hit = this.table.get(key);
+    if (hit !== undefined) return hit;
+    const id = this.nodes.push({ op, fanins }) - 1;
+    this.table.set(key, id);
+    return id;
+  }
+
+  not(a: number): number {
+    const c = this.isConst(a);
+    if (c !== undefined) return this.constant(c ? 0 : 1);
+    const n = this.nodes[a]!;
+    if (n.op === "not") return n.fanins[0]!;
+    return this.hashed("not", [a]);
+  }
+
+  /** The operand and whether it is inverted: not(x) → (x, true). */
+  private literal(id: number): [number, boolean] {
+    const n = this.nodes[id]!;
+    return n.op === "not" ? [n.fanins[0]!, true] : [id, false];
+  }
+
+  and(args: number[]): number {
+    return this.andOr("and", args);
+  }
+
+  or(args: number[]): number {
+    return this.andOr("or", args);
+  }
+
+  private andOr(op: "and" | "or", args: number[]): number {
+    const absorbing = op === "and" ? 0 : 1;
+    const set = new Set<number>();
+    for (const a of args) {
+      const c = this.isConst(a);
+      if (c === absorbing) return this.constant(absorbing);
+      if (c !== undefined) continue; // identity element
+      set.add(a);
+    }
+    // x op !x
+    const seen = new Map<number, boolean>();
+    for (const a of set) {
+      const [v, inv] = this.literal(a);
+      const prev = seen.get(v);
+      if (prev !== undefined && prev !== inv) return this.constant(absorbing);
+      seen.set(v, inv);
+    }
+    const list = [...set].sort((x, y) => x - y);
+    if (list.length === 0) return this.constant(absorbing ? 0 : 1);
+    if (list.length === 1) return list[0]!;
+    return this.hashed(op, list);
+  }
+
+  xor(args: number[]): number {
+    let parity = 0;
+    const count = new Map<number, number>();
+    for (const a of args) {
+      const c = this.isConst(a);
+      if (c !== undefined) {
+        parity ^= c;
+        continue;
+      }
+      const [v, inv] = this.literal(a);
+      if (inv) parity ^= 1;
+      count.set(v, (count.get(v) ?? 0) + 1);
+    }
+    const list = [...count].filter(([, k]) => k % 2 === 1).map(([v]) => v).sort((x, y) => x - y);
+    let r: number;
+    if (list.length === 0) r = this.constant(0);
+    else if (list.length === 1) r = list[0]!;
+    else r = this.hashed("xor", list);
+    return parity ? this.not(r) : r;
+  }
+
+  op(op: LogicOp, fanins: number[]): number {
+    switch (op) {
+      case "not":
+        return this.not(fanins[0]!);
+      case "buf":
+        return fanins[0]!;
+      case "and":
+        return this.and(fanins);
+      case "or":
+        return this.or(fanins);
+      case "xor":
+        return this.xor(fanins);
+      case "const0":
+        return this.constant(0);
+      case "const1":
+        return this.constant(1);
+      case "input":
+        throw new Error("inputs are made with input()");
+    }
+  }
+
+  /** Gives a node a source name if it has none (names are annotations, not structure). */
+  nameNode(id: number, name: string | undefined, span?: LogicNode["span"]): void {
+    if (name === undefined) return;
+    const n = this.nodes[id]!;
+    if (n.name !== undefined || n.op === "const0" || n.op === "const1") return;
+    n.name = name;
+    if (span && !n.span) n.span = span;
+  }
+}
+
+/**
+ * Rebuilds a graph through a GraphBuilder, keeping inputs, outputs and the named state signals.
+ * `rewrite` may replace the construction of any non-input node; by default the node's own op.
+ * Nodes not reachable from an output or a state signal are dropped.
+ */
+export function rebuild(
+  g: LogicGraph,
+  stateNames: readonly string[],
+  rewrite?: (b: GraphBuilder, node: LogicNode, operands: number[], id: number) => number,
+): LogicGraph {
+  const b = new GraphBuilder();
+  const map = new Int32Array(g.nodes.length).fill(-1);
+  const stateSet = new Set(stateNames);
+  const cutIds = new Set<number>();
+  g.nodes.forEach((n, id) => {
+    if (n.name !== undefined && stateSet.has(n.name) && n.op !== "input") cutIds.add(id);
+  });
+  for (const p of g.inputs) map[p.node] = b.input(p.name, g.nodes[p.node]!.span);
+  for (const id of cutIds) map[id] = b.placeholder(g.nodes[id]!.name!, g.nodes[id]!.span);
+  const order = evaluationOrder(g, cutIds);
+  if (!order) throw new Error("rebuild: a loop is not broken at the state signals");
+  const live = liveNodes(g, cutIds);
+  for (const id of order) {
+    if (map[id]! >= 0 || !live[id]) continue;
+    const n = g.nodes[id]!;
+    if (n.op === "input") {
+      map[id] = b.input(n.name ?? `in${id}`);
+      continue;
+    }
+    const operands = n.fanins.map((f) => map[f]!);
+    const r = rewrite ? rewrite(b, n, operands, id) : b.op(n.op, operands);
+    map[id] = r;
+    b.nameNode(r, n.name, n.span);
+  }
+  for (const id of cutIds) {
+    const n = g.nodes[id]!;
+    const operands = n.fanins.map((f) => map[f]!);
+    b.bind(map[id]!, rewrite && n.op !== "buf" ? rewrite(b, n, operands, id) : n.op === "buf" ? operands[0]! : b.op(n.op, operands));
+  }
+  const outputs: Port[] = g.outputs.map((p) => {
+    const q: Port = { name: p.name, node: map[p.node]! };
+    if (p.span) q.span = p.span;
+    return q;
+  });
+  const inputs: Port[] = g.inputs.map((p) => {
+    const q: Port = { name: p.name, node: map[p.node]! };
+    if (p.span) q.span = p.span;
+    return q;
+  });
+  const out: LogicGraph = { name: g.name, nodes: b.nodes, inputs, outputs };
+  if (g.file !== undefined) out.file = g.file;
+  return out;
+}
+
+/** Nodes that reach an output or a state signal. */
+export function liveNodes(g: LogicGraph, cutIds: ReadonlySet<number>): Uint8Array {
+  const live = new Uint8Array(g.nodes.length);
+  const stack = [...g.outputs.map((p) => p.node), ...cutIds];
+  while (stack.length) {
+    const id = stack.pop()!;
+    if (live[id]) continue;
+    live[id] = 1;
+    stack.push(...g.nodes[id]!.fanins);
+  }
+  for (const p of g.inputs) live[p.node] = 1;
+  return live;
+}
