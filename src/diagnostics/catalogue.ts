@@ -39,6 +39,10 @@ export const CATALOGUE = {
   GW2013: { severity: "error", title: "no inputs or outputs" },
   GW2014: { severity: "error", title: "wire never driven" },
   GW2015: { severity: "error", title: "bit-vector range or index out of range" },
+  // GW2020-GW2029: structure of structural Verilog (src/parse/verilog*.ts).
+  GW2020: { severity: "error", title: "port list and port declarations disagree" },
+  GW2021: { severity: "error", title: "bit widths do not match" },
+  GW2022: { severity: "error", title: "design too large after flattening" },
 
   GW3001: { severity: "note", title: "stored state found" },
   GW3002: { severity: "warning", title: "equivalence check was partial" },
@@ -51,6 +55,7 @@ export const CATALOGUE = {
   GW5002: { severity: "warning", title: "part rating exceeded" },
   GW5003: { severity: "warning", title: "high supply voltage" },
   GW5004: { severity: "warning", title: "small saturation margin" },
+  GW5005: { severity: "note", title: "high-fan-out cell variant chosen" },
 
   GW6001: { severity: "error", title: "bad option value" },
   GW6002: { severity: "error", title: "bad quantity or unit" },

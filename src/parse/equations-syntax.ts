@@ -1,0 +1,77 @@
+// Intermediate parse nodes built by the postprocessors of grammars/equations.ne.
+//
+// The Earley parser runs a postprocessor every time it completes a rule, including for
+// partial parses that are later thrown away, so each builder here does O(1) work and never
+// mutates its inputs: operator chains are kept as left-leaning binary nodes and name lists as
+// linked lists. parseEquations turns the one surviving parse into the public tree
+// (src/syntax/tree.ts) afterwards, without recursion: flattening chains, computing spans and
+// checking constants there.
+//
+// Nodes refer to tokens by their position in the statement (`StatementToken.index`), never
+// to token text or offsets. A parse therefore depends only on the sequence of token kinds,
+// which lets parseEquations reuse it for every later statement of the same shape.
+import type { Token } from "moo";
+
+/** A token of one statement, numbered from 0 within the statement. */
+export interface StatementToken extends Token {
+  index: number;
+}
+
+/** Operator of an n-ary node. */
+export type EqOperator = "and" | "or" | "xor";
+
+/** `first` and `last` are the indices of the node's first and last tokens. */
+export type RawExpr =
+  | { t: "ref"; first: number; last: number }
+  | { t: "num"; first: number; last: number }
+  /** A parenthesised expression; first/last are the parentheses. */
+  | { t: "group"; inner: RawExpr; first: number; last: number }
+  | { t: "not"; arg: RawExpr; first: number; last: number }
+  | { t: "bin"; op: EqOperator; left: RawExpr; right: RawExpr; first: number; last: number };
+
+/** Names of a declaration, last name first (a linked list, so that appending is O(1)). */
+export interface RawNameList {
+  /** Token index of the name. */
+  at: number;
+  prev: RawNameList | null;
+}
+
+/** One statement. New statement kinds (state elements, truth tables) add a member here and a
+ *  rule under `statement` in the grammar. */
+export type RawStatement =
+  | { t: "decl"; direction: "input" | "output"; names: RawNameList; first: number; last: number }
+  | { t: "assign"; target: number; expr: RawExpr; first: number; last: number };
+
+type Tok = StatementToken;
+
+/** Builders called from the grammar's postprocessors. They must look only at token kinds and
+ *  indices (see the note at the top of this file). */
+export const raw = {
+  ref(tok: Tok): RawExpr {
+    return { t: "ref", first: tok.index, last: tok.index };
+  },
+  num(tok: Tok): RawExpr {
+    return { t: "num", first: tok.index, last: tok.index };
+  },
+  group(open: Tok, inner: RawExpr, close: Tok): RawExpr {
+    return { t: "group", inner, first: open.index, last: close.index };
+  },
+  prefixNot(op: Tok, arg: RawExpr): RawExpr {
+    return { t: "not", arg, first: op.index, last: arg.last };
+  },
+  postfixNot(arg: RawExpr, op: Tok): RawExpr {
+    return { t: "not", arg, first: arg.first, last: op.index };
+  },
+  bin(op: EqOperator, left: RawExpr, right: RawExpr): RawExpr {
+    return { t: "bin", op, left, right, first: left.first, last: right.last };
+  },
+  names(prev: RawNameList | null, tok: Tok): RawNameList {
+    return { at: tok.index, prev };
+  },
+  declaration(direction: "input" | "output", keyword: Tok, names: RawNameList, semi: Tok): RawStatement {
+    return { t: "decl", direction, names, first: keyword.index, last: semi.index };
+  },
+  assignment(target: Tok, expr: RawExpr, semi: Tok): RawStatement {
+    return { t: "assign", target: target.index, expr, first: target.index, last: semi.index };
+  },
+};
