@@ -2,5 +2,5 @@
 import { execFileSync } from "node:child_process";
 
 export default function setup(): void {
-  execFileSync(process.execPath, ["src/build/compile-grammars.mjs"], { stdio: "inherit" });
+  execFileSync(process.execPath, ["src/build/generate.mjs"], { stdio: "inherit" });
 }

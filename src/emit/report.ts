@@ -1,0 +1,207 @@
+// The design report (x.report.md) and the same facts as JSON (x.json).
+import type { CellAnalysis, OperatingFigures, SizedDesign } from "../electrical/types.js";
+import { cellById } from "../cells/registry.js";
+import { bomRows, bomTotals } from "./bom.js";
+import { eng, num } from "./format.js";
+import { render } from "./render.js";
+import { generatedBy, type EmitContext } from "./context.js";
+
+/** The cautions every report and the README carry. */
+export function cautions(design: SizedDesign): string[] {
+  const supply = design.parameters.find((p) => p.name === "supplyVolts")!.value;
+  const list = [
+    `Check every resistor's power rating and every diode's and transistor's voltage and current rating at the ${eng(supply, "V")} supply and your highest ambient temperature before you build.`,
+    "Work on mains-powered equipment only with proper isolation and qualified practice, and follow your local electrical codes.",
+    "These figures are design aids: confirm them by simulation and by measurement on the built circuit.",
+  ];
+  if (supply > 5.5) list.splice(1, 0, `At ${eng(supply, "V")} currents and dissipation are higher than in 5 V logic: check the parts list ratings and keep supply wiring fused.`);
+  return list;
+}
+
+function fig(x: OperatingFigures) {
+  return {
+    i1: eng(x.i1Amps, "A"),
+    i2: eng(x.i2Amps, "A"),
+    iB: eng(x.iBAmps, "A"),
+    iC: eng(x.iCAmps, "A"),
+    vOL: eng(x.vOLVolts, "V"),
+    vOH: eng(x.vOHVolts, "V"),
+  };
+}
+
+function valuesText(values: Record<string, number>): string {
+  return Object.entries(values)
+    .map(([k, v]) => `${k.replace(/Ohms$/, "").replace(/^r/, "R_").toUpperCase()} ${eng(v, "Ω")}`)
+    .join(", ");
+}
+
+function constraintValue(v: number, unit: string): string {
+  if (unit === "" || unit === "ratio" || unit === "×") return num(v);
+  return eng(v, unit);
+}
+
+export function reportView(ctx: EmitContext, files: { name: string; what: string }[]) {
+  const d = ctx.design;
+  const nl = d.netlist;
+  const rows = bomRows(d);
+  const totals = bomTotals(rows);
+  const cellCounts = d.cellTypes.map((t) => `${t.cells.length} × ${t.fn.toUpperCase()}-${t.fanin}${t.variant !== "basic" ? ` (${t.variant})` : ""}`);
+  const eq = ctx.equivalence;
+  const partial = eq.cones.filter((c) => !c.exhaustive).length;
+  const equivalenceText = eq.equivalent
+    ? partial
+      ? `the cells compute the source's logic on every vector tried; ${partial} of ${eq.cones.length} cones were checked with random vectors only (partial)`
+      : `the cells compute exactly the source's logic (every cone checked exhaustively)`
+    : `MISMATCH`;
+  const analysisRow = (a: CellAnalysis) => ({
+    iB: eng(a.iBAmps, "A"),
+    iC: eng(a.iCAmps, "A"),
+    iLoad: eng(a.iLoadAmps, "A"),
+    satMargin: num(a.satMargin),
+    betaNeeded: num(a.betaNeeded),
+    fanout: `${a.fanout} (${a.maxFanout})`,
+    vOL: eng(a.vOLVolts, "V"),
+    vOH: eng(a.vOHVolts, "V"),
+    nmL: eng(a.noiseMarginLowVolts, "V"),
+    nmH: eng(a.noiseMarginHighVolts, "V"),
+    power: `${eng(a.powerLowWatts, "W")} / ${eng(a.powerHighWatts, "W")}`,
+  });
+  return {
+    designName: nl.name,
+    generatedBy: generatedBy(ctx),
+    commandLine: ctx.commandLine,
+    sourceFile: ctx.sourceFile,
+    cautions: cautions(d),
+    inputs: nl.inputs.map((i) => nl.nets[i]!.name).join(", "),
+    outputs: nl.outputs.map((o) => o.name).join(", "),
+    stateText: ctx.stateNames.length ? `${ctx.stateNames.join(", ")} (feedback kept as written)` : "none (combinational)",
+    cellsText: `${nl.cells.length}: ${cellCounts.join(", ")}`,
+    partsText: `${totals.parts} (${totals.byKindText}); ${totals.lines} distinct part values`,
+    powerText: eng(d.totals.staticPowerWatts, "W"),
+    currentText: eng(d.totals.supplyCurrentAmps, "A"),
+    powerNominalText: eng(d.totals.staticPowerNominalWatts, "W"),
+    currentNominalText: eng(d.totals.supplyCurrentNominalAmps, "A"),
+    equivalenceText,
+    pathText: d.criticalPath
+      ? `${d.criticalPath.depth} cells, ${eng(d.criticalPath.delaySeconds, "s")} (${d.criticalPath.nets.join(" → ")})${d.criticalPath.budgetSeconds !== undefined ? `, budget ${eng(d.criticalPath.budgetSeconds, "s")}` : ""}`
+      : "",
+    parameters: d.parameters.map((p) => ({
+      label: p.label,
+      valueText: p.unit ? eng(p.value, p.unit) : num(p.value),
+      sourceText: p.source === "user" ? "given" : "default",
+    })),
+    cornerCount: d.corners.length,
+    cornersText: d.corners.join("; "),
+    cellRows: d.cellTypes.map((t) => ({ key: t.key, count: t.cells.length, values: valuesText(t.values), ...analysisRow(t.analysis) })),
+    cellDetails: d.cellTypes.map((t) => {
+      const def = cellById(t.cellId);
+      const tm = t.analysis.timing;
+      return {
+        key: t.key,
+        title: def?.title ?? t.cellId,
+        source: def?.source ?? "the cell's design equations",
+        nominal: fig(t.analysis.nominal),
+        timingText: tm
+          ? `t_PHL ${eng(tm.tPHLSeconds, "s")}, t_PLH ${eng(tm.tPLHSeconds, "s")} (storage ${eng(tm.tStorageSeconds, "s")}, rise ${eng(tm.tRiseSeconds, "s")}) into ${eng(tm.loadCapacitanceFarads, "F")}`
+          : "",
+        constraints: t.analysis.constraints.map((c) => ({
+          label: c.label,
+          value: constraintValue(c.value, c.unit),
+          limit: `${c.sense === "min" ? "≥" : "≤"} ${constraintValue(c.limit, c.unit)}`,
+          margin: `${num(c.margin * 100)} %${c.ok ? "" : " FAILS"}`,
+          corner: c.corner,
+          binding: c.id === t.analysis.binding,
+        })),
+      };
+    }),
+    equivalenceDetail: eq.equivalent
+      ? `Before any file was written, the mapped cells were compared with the source logic for every output${ctx.stateNames.length ? " and for the next value of every state signal (with the state signals as free variables)" : ""}.${partial ? " Cones with more than 20 free variables were checked with seeded random vectors: the check is partial for them." : ""}`
+      : "The mapped cells do not compute the source logic.",
+    cones: eq.cones.map((c) => ({
+      name: c.name,
+      kind: c.kind === "state" ? "state (next value)" : "output",
+      support: c.support,
+      vectors: c.vectors,
+      method: c.exhaustive ? "exhaustive" : "random (partial)",
+    })),
+    testbenchFile: files.find((f) => f.name.endsWith(".tb.cir"))?.name ?? "",
+    stimulusText: ctx.stimulus.exhaustive
+      ? `every input combination (${ctx.stimulus.vectors.length} steps)`
+      : `${ctx.stimulus.vectors.length} seeded random vectors (seed ${ctx.stimulus.seed})`,
+    stepText: eng(ctx.stepSeconds, "s"),
+    notes: [...d.notes, ...ctx.notes],
+    files,
+  };
+}
+
+export function renderReport(ctx: EmitContext, files: { name: string; what: string }[]): string {
+  return render("report.md", reportView(ctx, files));
+}
+
+/** The facts of the report for other programs. Numbers in SI units, names as in the source. */
+export function designJson(ctx: EmitContext, files: { name: string; what: string }[]): object {
+  const d = ctx.design;
+  const nl = d.netlist;
+  return {
+    generator: { name: ctx.tool.name, version: ctx.tool.version, note: generatedBy(ctx) },
+    design: nl.name,
+    source: ctx.sourceFile,
+    inputs: nl.inputs.map((i) => nl.nets[i]!.name),
+    outputs: nl.outputs.map((o) => o.name),
+    stateSignals: ctx.stateNames,
+    parameters: d.parameters,
+    mode: d.mode,
+    series: d.series,
+    resistorTolerance: d.resistorTolerance,
+    corners: d.corners,
+    models: d.models,
+    cellTypes: d.cellTypes.map((t) => ({
+      key: t.key,
+      cell: t.cellId,
+      function: t.fn,
+      fanin: t.fanin,
+      variant: t.variant,
+      count: t.cells.length,
+      values: t.values,
+      analysis: t.analysis,
+    })),
+    cells: nl.cells.map((c) => {
+      const inst = d.instances[c.index]!;
+      return {
+        designator: `U${c.index + 1}`,
+        type: d.cellTypes[inst.cellType]!.key,
+        inputs: c.inputs.map((x) => nl.nets[x]!.name),
+        output: nl.nets[c.output]!.name,
+        parts: inst.designators,
+      };
+    }),
+    nets: nl.nets.map((n) => ({
+      name: n.name,
+      fromSource: n.named,
+      driver: n.driver.kind === "cell" ? `U${n.driver.cell + 1}` : n.driver.kind === "input" ? "input" : `constant ${n.driver.value}`,
+      loads: n.loads.map((l) => ({ cell: `U${l.cell + 1}`, pin: l.pin + 1 })),
+    })),
+    partsList: bomRows(d).map((r) => ({
+      quantity: r.quantity,
+      designators: r.designatorList,
+      value: r.value,
+      tolerance: r.tolerance,
+      rating: r.rating,
+      description: r.description,
+      partNumber: r.partNumber,
+    })),
+    totals: d.totals,
+    criticalPath: d.criticalPath ?? null,
+    equivalence: ctx.equivalence,
+    testbench: {
+      stepSeconds: ctx.stepSeconds,
+      exhaustive: ctx.stimulus.exhaustive,
+      seed: ctx.stimulus.seed ?? null,
+      vectors: ctx.stimulus.vectors.map((v) => v.join("")),
+      expected: ctx.stimulus.expected.map((e) => e.map((x) => (x === "X" ? "x" : String(x))).join("")),
+    },
+    notes: [...d.notes, ...ctx.notes],
+    cautions: cautions(d),
+    files,
+  };
+}

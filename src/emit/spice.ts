@@ -1,0 +1,222 @@
+// The SPICE netlist (x.cir) and its testbench (x.tb.cir), as view models for the templates.
+import type { SizedDesign } from "../electrical/types.js";
+import { eng, spiceNumber, spiceParam } from "./format.js";
+import { render } from "./render.js";
+import { SpiceNamer } from "./spice-names.js";
+import { generatedBy, type EmitContext } from "./context.js";
+
+export interface SpiceNames {
+  namer: SpiceNamer;
+  /** SPICE node of each net of the cell netlist. */
+  net: string[];
+  inputs: string[];
+  outputs: string[];
+}
+
+export function spiceNamesOf(design: SizedDesign): SpiceNames {
+  const namer = new SpiceNamer();
+  const n = design.netlist;
+  // Ports first, in port order, so they get their plain names.
+  const net: string[] = new Array(n.nets.length);
+  for (const i of n.inputs) net[i] = namer.nameOf(n.nets[i]!.name);
+  for (const o of n.outputs) net[o.net] = namer.nameOf(n.nets[o.net]!.name);
+  for (const x of n.nets) if (net[x.index] === undefined) net[x.index] = namer.nameOf(x.name);
+  return { namer, net, inputs: n.inputs.map((i) => net[i]!), outputs: n.outputs.map((o) => net[o.net]!) };
+}
+
+function elementLine(e: SizedDesign["cellTypes"][number]["elements"][number], design: SizedDesign): string {
+  const nodes = e.nodes.join(" ");
+  switch (e.kind) {
+    case "R":
+    case "C":
+      return `${e.name} ${nodes} ${spiceNumber(e.value!)}`;
+    case "D":
+      return `${e.name} ${nodes} ${e.model ?? design.models.diode.name}`;
+    case "Q":
+      return `${e.name} ${nodes} ${e.model ?? design.models.npn.name}`;
+  }
+}
+
+/** Resistors that tie a constant output to the supply or to ground. */
+export interface Tie {
+  net: number;
+  value: 0 | 1;
+  designator: string;
+  ohms: number;
+}
+
+export function tiesOf(design: SizedDesign): Tie[] {
+  const ties: Tie[] = [];
+  let next = design.components.filter((c) => c.kind === "R").length;
+  for (const net of design.netlist.nets) {
+    if (net.driver.kind !== "tie") continue;
+    if (net.loads.length === 0 && net.outputPort === undefined) continue;
+    ties.push({ net: net.index, value: net.driver.value, designator: `R${++next}`, ohms: 1000 });
+  }
+  return ties;
+}
+
+export function renderNetlist(ctx: EmitContext, names: SpiceNames): string {
+  const d = ctx.design;
+  const nl = d.netlist;
+  const supply = d.parameters.find((p) => p.name === "supplyVolts");
+  const topPorts = [...names.inputs, ...names.outputs, "vcc"].join(" ");
+  const models = [d.models.diode, d.models.npn].map((m) => ({
+    name: m.name,
+    type: m.type,
+    description: m.partNumber ? `${m.description} (part ${m.partNumber})` : m.description,
+    params: Object.entries(m.params)
+      .map(([k, v]) => `${k}=${spiceParam(v)}`)
+      .join(" "),
+  }));
+  const cellTypes = d.cellTypes.map((t) => ({
+    key: t.key,
+    description: `${t.fn.toUpperCase()}-${t.fanin} (${t.variant} DTL cell${t.fanin === 1 ? ", inverter" : ""}); ports: ${t.pins.join(" ")}`,
+    valuesText: Object.entries(t.values)
+      .map(([k, v]) => `${k.replace(/Ohms$/, "").replace(/^r/, "R_").toUpperCase().replace("R_", "R_")} = ${eng(v, "Ω")}`)
+      .join(", "),
+    pins: t.pins.join(" "),
+    elements: t.elements.map((e) => ({ line: elementLine(e, d) })),
+  }));
+  const instances = d.instances.map((inst) => {
+    const cell = nl.cells[inst.cell]!;
+    const type = d.cellTypes[inst.cellType]!;
+    const nodes = [...cell.inputs.map((x) => names.net[x]!), names.net[cell.output]!, "vcc"];
+    const parts = Object.entries(inst.designators)
+      .map(([local, global]) => `${local}=${global}`)
+      .join(" ");
+    const signal = nl.nets[cell.output]!.name;
+    return {
+      comment: `U${inst.cell + 1} drives ${signal}: ${parts}`,
+      line: `XU${inst.cell + 1} ${nodes.join(" ")} ${type.key}`,
+    };
+  });
+  const ties = tiesOf(d).map((t) => ({
+    comment: `${nl.nets[t.net]!.name} is constant ${t.value}: tied to ${t.value ? "the supply" : "ground"} by ${t.designator}`,
+    line: `${t.designator} ${names.net[t.net]} ${t.value ? "vcc" : "0"} ${spiceNumber(t.ohms)}`,
+  }));
+  return render("netlist.cir", {
+    designName: nl.name,
+    generatedBy: generatedBy(ctx),
+    commandLine: ctx.commandLine,
+    sourceFile: ctx.sourceFile,
+    inputs: nl.inputs.map((i) => nl.nets[i]!.name).join(" "),
+    outputs: nl.outputs.map((o) => o.name).join(" "),
+    supplyText: supply ? eng(supply.value, "V") : "",
+    parameters: d.parameters.map((p) => ({
+      label: p.label,
+      valueText: p.unit ? eng(p.value, p.unit) : String(p.value),
+      sourceText: p.source === "user" ? "given" : "default",
+    })),
+    renamed: names.namer.renamed(),
+    topPorts,
+    models,
+    cellTypes,
+    instances,
+    ties,
+  });
+}
+
+export interface TestbenchLevels {
+  /** A sampled output below this reads as 0 (the highest level a cell input still reads low). */
+  vilVolts: number;
+  /** A sampled output above this reads as 1 (the lowest level a cell input reads high). */
+  vihVolts: number;
+}
+
+/** Thresholds for reading the testbench's outputs, from the sized cells' worst case. */
+export function testbenchLevels(design: SizedDesign): TestbenchLevels {
+  const a = design.cellTypes.map((t) => t.analysis);
+  const supply = design.parameters.find((p) => p.name === "supplyVolts")!.value;
+  const vilVolts = Math.min(...a.map((x) => x.vILVolts));
+  const vihVolts = Math.max(...a.map((x) => x.vIHVolts));
+  return {
+    vilVolts: Number.isFinite(vilVolts) ? vilVolts : supply * 0.2,
+    vihVolts: Number.isFinite(vihVolts) ? vihVolts : supply * 0.5,
+  };
+}
+
+export const EDGE_FRACTION = 0.002;
+/** Base resistor of the testbench's input driver transistors (drive well into saturation). */
+export const DRIVER_BASE_OHMS = 2200;
+export const SAMPLE_FRACTION = 0.05;
+
+/** Sample time of step i: a little before the step ends. */
+export function sampleTime(i: number, stepSeconds: number): number {
+  return (i + 1 - SAMPLE_FRACTION) * stepSeconds;
+}
+
+export function renderTestbench(ctx: EmitContext, names: SpiceNames, files: { netlist: string; testbench: string }): string {
+  const d = ctx.design;
+  const nl = d.netlist;
+  const st = ctx.stimulus;
+  const T = ctx.stepSeconds;
+  const edge = T * EDGE_FRACTION;
+  const lv = testbenchLevels(d);
+  const supply = d.parameters.find((p) => p.name === "supplyVolts")!.value;
+  // Each input is driven the way a DTL output drives it: a pull-up resistor to the supply and a
+  // saturating transistor to ground, whose base a PWL source switches.
+  const drv = d.inputDriver;
+  const baseDrive = supply;
+  const sources = names.inputs.map((node, k) => {
+    // The control source is high when the input must be low.
+    const level = (bit: 0 | 1) => (bit ? 0 : baseDrive);
+    const pts: string[] = [`0 ${spiceNumber(level(st.vectors[0]![k]!))}`];
+    for (let i = 1; i < st.vectors.length; i++) {
+      const prev = st.vectors[i - 1]![k]!;
+      const cur = st.vectors[i]![k]!;
+      if (prev === cur) continue;
+      pts.push(`${spiceNumber(i * T)} ${spiceNumber(level(prev))}`);
+      pts.push(`${spiceNumber(i * T + edge)} ${spiceNumber(level(cur))}`);
+    }
+    const lines = [
+      `* input ${nl.nets[nl.inputs[k]!]!.name}: pull-up ${eng(drv.pullUpOhms, "Ω")}, transistor to ground`,
+      `R_PU_${node} vcc ${node} ${spiceNumber(drv.pullUpOhms)}`,
+      `Q_DRV_${node} ${node} drvb_${node} 0 ${d.models.npn.name}`,
+      `R_DRV_${node} drvc_${node} drvb_${node} ${spiceNumber(DRIVER_BASE_OHMS)}`,
+    ];
+    const head = `V_DRV_${node} drvc_${node} 0 PWL(`;
+    let line = head;
+    pts.forEach((p, i) => {
+      if (line.length + p.length > 100) {
+        lines.push(line);
+        line = "+ ";
+      }
+      line += p + (i < pts.length - 1 ? " " : ")");
+    });
+    lines.push(line);
+    return { lines };
+  });
+  const steps = st.vectors.map((v, i) => ({
+    index: i,
+    timeText: eng(sampleTime(i, T), "s", 4),
+    inputs: v.join(""),
+    expected: st.expected[i]!.map((x) => (x === "X" ? "x" : String(x))).join(""),
+    measures: names.outputs.map((o) => `s${i}_${o} FIND v(${o}) AT=${spiceNumber(sampleTime(i, T), 8)}`),
+  }));
+  const stop = st.vectors.length * T;
+  return render("testbench.cir", {
+    designName: nl.name,
+    generatedBy: generatedBy(ctx),
+    testbenchFile: files.testbench,
+    netlistFile: files.netlist,
+    stimulusText: st.exhaustive
+      ? `every combination of its ${names.inputs.length} input${names.inputs.length === 1 ? "" : "s"} in Gray-code order${ctx.stateNames.length ? ", forward and back" : ""} (${st.vectors.length} steps)`
+      : `${st.vectors.length} random vectors (seed ${st.seed})`,
+    stepText: eng(T, "s"),
+    sampleText: eng(T * SAMPLE_FRACTION, "s"),
+    pullUpText: eng(d.inputDriver.pullUpOhms, "Ω"),
+    vilText: eng(lv.vilVolts, "V"),
+    vihText: eng(lv.vihVolts, "V"),
+    optionsLine: "reltol=1e-4 abstol=1e-12 vntol=1e-6 itl4=100",
+    supplyValue: spiceNumber(supply),
+    sources,
+    dutNodes: [...names.inputs, ...names.outputs, "vcc"].join(" "),
+    tranStep: spiceNumber(T / 200),
+    tranStop: spiceNumber(stop),
+    tranMaxStep: spiceNumber(T / 50),
+    saveList: [...names.inputs, ...names.outputs].map((x) => `v(${x})`).concat(["i(vcc)"]).join(" "),
+    outputs: nl.outputs.map((o) => o.name).join(" "),
+    steps,
+  });
+}
