@@ -102,3 +102,20 @@ export function compareDesignators(a: string, b: string): number {
   if (ma && mb && ma[1] === mb[1]) return Number(ma[2]) - Number(mb[2]);
   return a < b ? -1 : a > b ? 1 : 0;
 }
+
+/** A design parameter's value for people, by its unit. */
+export function parameterText(value: number, unit: string): string {
+  switch (unit) {
+    case "ratio":
+      return `${num(value * 100, 4)} %`;
+    case "°C":
+      return `${num(value, 4)} °C`;
+    case "":
+      return num(value, 4);
+    case "values/decade":
+    case "loads":
+      return `${num(value, 4)} ${unit === "loads" ? (value === 1 ? "load" : "loads") : "values a decade"}`;
+    default:
+      return eng(value, unit);
+  }
+}

@@ -44,7 +44,7 @@ export function emitDesign(ctx: EmitContext): OutputFile[] {
   ];
 }
 
-export { spiceNamesOf, testbenchLevels, sampleTime } from "./spice.js";
+export { spiceNamesOf, outputLevels, sampleTime } from "./spice.js";
 export { makeStimulus, type Stimulus } from "./stimulus.js";
 export { cautions } from "./report.js";
 export type { EmitContext } from "./context.js";

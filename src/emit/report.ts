@@ -2,7 +2,7 @@
 import type { CellAnalysis, OperatingFigures, SizedDesign } from "../electrical/types.js";
 import { cellById } from "../cells/registry.js";
 import { bomRows, bomTotals } from "./bom.js";
-import { eng, num } from "./format.js";
+import { eng, num, parameterText } from "./format.js";
 import { render } from "./render.js";
 import { generatedBy, type EmitContext } from "./context.js";
 
@@ -87,7 +87,7 @@ export function reportView(ctx: EmitContext, files: { name: string; what: string
       : "",
     parameters: d.parameters.map((p) => ({
       label: p.label,
-      valueText: p.unit ? eng(p.value, p.unit) : num(p.value),
+      valueText: parameterText(p.value, p.unit),
       sourceText: p.source === "user" ? "given" : "default",
     })),
     cornerCount: d.corners.length,

@@ -1,8 +1,9 @@
 // The SPICE netlist (x.cir) and its testbench (x.tb.cir), as view models for the templates.
 import type { SizedDesign } from "../electrical/types.js";
-import { eng, spiceNumber, spiceParam } from "./format.js";
+import { eng, parameterText, spiceNumber, spiceParam } from "./format.js";
 import { render } from "./render.js";
 import { SpiceNamer } from "./spice-names.js";
+import { cellById } from "../cells/registry.js";
 import { generatedBy, type EmitContext } from "./context.js";
 
 export interface SpiceNames {
@@ -105,7 +106,7 @@ export function renderNetlist(ctx: EmitContext, names: SpiceNames): string {
     supplyText: supply ? eng(supply.value, "V") : "",
     parameters: d.parameters.map((p) => ({
       label: p.label,
-      valueText: p.unit ? eng(p.value, p.unit) : String(p.value),
+      valueText: parameterText(p.value, p.unit),
       sourceText: p.source === "user" ? "given" : "default",
     })),
     renamed: names.namer.renamed(),
@@ -124,15 +125,30 @@ export interface TestbenchLevels {
   vihVolts: number;
 }
 
-/** Thresholds for reading the testbench's outputs, from the sized cells' worst case. */
-export function testbenchLevels(design: SizedDesign): TestbenchLevels {
-  const a = design.cellTypes.map((t) => t.analysis);
+/**
+ * Thresholds for reading one output in the testbench: those of the cell inputs the output
+ * drives inside the design, worst case (a net that feeds diode-OR inputs is clamped high at
+ * their input level, which they read as high). An output that drives no cell is read with the
+ * strictest thresholds of any cell in the design, as if it fed the next board's gates.
+ */
+export function outputLevels(design: SizedDesign, output: number): TestbenchLevels {
+  const net = design.netlist.nets[design.netlist.outputs[output]!.net]!;
   const supply = design.parameters.find((p) => p.name === "supplyVolts")!.value;
-  const vilVolts = Math.min(...a.map((x) => x.vILVolts));
-  const vihVolts = Math.max(...a.map((x) => x.vIHVolts));
+  const types = net.loads.length
+    ? net.loads.map((l) => design.cellTypes[design.instances[l.cell]!.cellType]!)
+    : design.cellTypes;
+  const andTypes = types.filter((t) => cellById(t.cellId)?.inputKind !== "or");
+  const orTypes = types.filter((t) => cellById(t.cellId)?.inputKind === "or");
+  const vil = Math.min(...types.map((t) => t.analysis.vILVolts));
+  // A diode-AND input reads high above its V_IH. A diode-OR input clamps the net at its own
+  // input level when the net is high, so for it "high" is any level that turns it on: above
+  // its worst-case V_IL.
+  const vihAnd = Math.max(...andTypes.map((t) => t.analysis.vIHVolts));
+  const vihOr = Math.max(...orTypes.map((t) => t.analysis.vILVolts));
+  const vih = andTypes.length ? (orTypes.length ? Math.max(vihAnd, vihOr) : vihAnd) : vihOr;
   return {
-    vilVolts: Number.isFinite(vilVolts) ? vilVolts : supply * 0.2,
-    vihVolts: Number.isFinite(vihVolts) ? vihVolts : supply * 0.5,
+    vilVolts: Number.isFinite(vil) ? vil : supply * 0.2,
+    vihVolts: Number.isFinite(vih) ? vih : supply * 0.5,
   };
 }
 
@@ -152,7 +168,6 @@ export function renderTestbench(ctx: EmitContext, names: SpiceNames, files: { ne
   const st = ctx.stimulus;
   const T = ctx.stepSeconds;
   const edge = T * EDGE_FRACTION;
-  const lv = testbenchLevels(d);
   const supply = d.parameters.find((p) => p.name === "supplyVolts")!.value;
   // Each input is driven the way a DTL output drives it: a pull-up resistor to the supply and a
   // saturating transistor to ground, whose base a PWL source switches.
@@ -206,8 +221,10 @@ export function renderTestbench(ctx: EmitContext, names: SpiceNames, files: { ne
     stepText: eng(T, "s"),
     sampleText: eng(T * SAMPLE_FRACTION, "s"),
     pullUpText: eng(d.inputDriver.pullUpOhms, "Ω"),
-    vilText: eng(lv.vilVolts, "V"),
-    vihText: eng(lv.vihVolts, "V"),
+    thresholds: names.outputs.map((o, k) => {
+      const lv = outputLevels(d, k);
+      return { node: o, vilText: eng(lv.vilVolts, "V"), vihText: eng(lv.vihVolts, "V") };
+    }),
     optionsLine: "reltol=1e-4 abstol=1e-12 vntol=1e-6 itl4=100",
     supplyValue: spiceNumber(supply),
     sources,
