@@ -13,6 +13,15 @@ import { eng } from "../emit/format.js";
 
 export const EXIT = { ok: 0, design: 1, usage: 2 } as const;
 
+/** Where the shell prints: the process's streams, or a test's. */
+export interface Io {
+  out: { write(s: string): unknown };
+  err: { write(s: string): unknown };
+  columns?: number;
+}
+
+const processIo: Io = { out: process.stdout, err: process.stderr, ...(process.stdout.columns ? { columns: process.stdout.columns } : {}) };
+
 function sizingFlags<T>(y: Argv<T>) {
   return y
     .option("supply", { type: "string", describe: "supply voltage, nominal", default: undefined, defaultDescription: "5 V", group: "Electrical:" })
@@ -51,12 +60,12 @@ interface SynthArgs extends RawSizingArgs {
   quiet?: boolean;
 }
 
-export function runSynth(args: SynthArgs, argv: string[]): number {
+export function runSynth(args: SynthArgs, argv: string[], io: Io): number {
   const diagnostics: Diagnostic[] = [];
   const sources = new Map<string, string>();
   const read = readText(args.file);
   if (read.error !== undefined) {
-    printDiagnostics([diag("GW6004", read.error)], sources);
+    printDiagnostics([diag("GW6004", read.error)], sources, io.err);
     return EXIT.usage;
   }
   const text = read.text!;
@@ -76,7 +85,7 @@ export function runSynth(args: SynthArgs, argv: string[]): number {
     diagnostics.push(diag("GW6003", `--max-fanin ${args["max-fanin"]}: give a whole number from 2 to 64`));
   }
   if (hasErrors(diagnostics)) {
-    printDiagnostics(diagnostics, sources);
+    printDiagnostics(diagnostics, sources, io.err);
     return EXIT.usage;
   }
   const opts: Parameters<typeof synthesize>[2] = {
@@ -89,30 +98,30 @@ export function runSynth(args: SynthArgs, argv: string[]): number {
   const result = synthesize(text, args.file, opts);
   diagnostics.push(...result.diagnostics);
   const shown = args.quiet ? diagnostics.filter((d) => d.severity === "error") : diagnostics;
-  printDiagnostics(shown, sources);
+  printDiagnostics(shown, sources, io.err);
   if (!result.files || hasErrors(diagnostics)) {
     const internal = diagnostics.some((d) => d.code.startsWith("GW9"));
-    if (!args.quiet) process.stderr.write(`${internal ? "internal error" : "nothing written"}: ${diagnostics.filter((d) => d.severity === "error").length} error(s)\n`);
+    if (!args.quiet) io.err.write(`${internal ? "internal error" : "nothing written"}: ${diagnostics.filter((d) => d.severity === "error").length} error(s)\n`);
     return EXIT.design;
   }
   const w = writeOutputs(args.out, result.files, { force: !!args.force });
   if (w.error) {
-    printDiagnostics([diag(w.error.code, w.error.message)], sources);
+    printDiagnostics([diag(w.error.code, w.error.message)], sources, io.err);
     return EXIT.design;
   }
   if (!args.quiet) {
     const d = result.design!;
     const nl = result.netlist!;
-    process.stdout.write(
+    io.out.write(
       `${nl.name}: ${nl.cells.length} cells, ${d.totals.transistors} transistors, ${d.totals.diodes} diodes, ${d.totals.resistors} resistors; ` +
         `worst-case ${eng(d.totals.staticPowerWatts, "W")} at ${eng(sizing.supplyVolts, "V")}\n`,
     );
-    for (const f of w.written) process.stdout.write(`  wrote ${f}\n`);
+    for (const f of w.written) io.out.write(`  wrote ${f}\n`);
   }
   return EXIT.ok;
 }
 
-export async function main(argv: string[]): Promise<number> {
+export async function main(argv: string[], io: Io = processIo): Promise<number> {
   let code: number = EXIT.ok;
   let usageError: string | undefined;
   const parser = yargs(argv)
@@ -130,7 +139,7 @@ export async function main(argv: string[]): Promise<number> {
           .example("$0 synth examples/pump.logic --out out/pump", "build the pump controller at 5 V")
           .example("$0 synth examples/pump.logic --out out/pump12 --supply 12V", "the same design for a 12 V plant supply"),
       (a) => {
-        code = runSynth(a as unknown as SynthArgs, argv);
+        code = runSynth(a as unknown as SynthArgs, argv, io);
       },
     )
     .demandCommand(1, "say what to do: gatewright synth FILE (see --help)")
@@ -139,22 +148,35 @@ export async function main(argv: string[]): Promise<number> {
     .version(TOOL.version)
     .help()
     .alias("h", "help")
-    .wrap(Math.min(100, process.stdout.columns ?? 100))
+    .wrap(Math.min(100, io.columns ?? 100))
     .fail((msg, err) => {
       if (err) throw err;
       usageError = msg;
     })
     .exitProcess(false);
+  let output = "";
   try {
-    await parser.parseAsync();
+    // With a callback, yargs hands back its help and version text instead of printing it.
+    await new Promise<void>((resolve, reject) => {
+      try {
+        parser.parse(argv, {}, (err, _parsed, text) => {
+          output = text ?? "";
+          if (err && usageError === undefined) usageError = err.message;
+          resolve();
+        });
+      } catch (e) {
+        reject(e);
+      }
+    });
   } catch (e) {
-    process.stderr.write(`gatewright: internal error: ${(e as Error).stack ?? e}\n`);
+    io.err.write(`gatewright: internal error: ${(e as Error).stack ?? e}\n`);
     return EXIT.design;
   }
   if (usageError !== undefined) {
-    process.stderr.write(`gatewright: ${usageError}\nRun 'gatewright --help' for the commands and options.\n`);
+    io.err.write(`gatewright: ${usageError}\nRun 'gatewright --help' for the commands and options.\n`);
     return EXIT.usage;
   }
+  if (output) io.out.write(output.endsWith("\n") ? output : output + "\n");
   return code;
 }
 
