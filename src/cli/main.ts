@@ -122,7 +122,7 @@ export function runSynth(args: SynthArgs, argv: string[], io: Io): number {
 }
 
 export async function main(argv: string[], io: Io = processIo): Promise<number> {
-  let code: number = EXIT.ok;
+  let pending: (() => number) | undefined;
   let usageError: string | undefined;
   const parser = yargs(argv)
     .scriptName("gatewright")
@@ -139,7 +139,8 @@ export async function main(argv: string[], io: Io = processIo): Promise<number> 
           .example("$0 synth examples/pump.logic --out out/pump", "build the pump controller at 5 V")
           .example("$0 synth examples/pump.logic --out out/pump12 --supply 12V", "the same design for a 12 V plant supply"),
       (a) => {
-        code = runSynth(a as unknown as SynthArgs, argv, io);
+        // Run only after parsing has finished without a usage error.
+        pending = () => runSynth(a as unknown as SynthArgs, argv, io);
       },
     )
     .demandCommand(1, "say what to do: gatewright synth FILE (see --help)")
@@ -177,6 +178,6 @@ export async function main(argv: string[], io: Io = processIo): Promise<number> 
     return EXIT.usage;
   }
   if (output) io.out.write(output.endsWith("\n") ? output : output + "\n");
-  return code;
+  return pending ? pending() : EXIT.ok;
 }
 
