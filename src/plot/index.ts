@@ -1,0 +1,2 @@
+export * from "./svg.js";
+export * from "./scale.js";
