@@ -1,0 +1,129 @@
+// From a cell netlist to load situations: for each cell, what hangs on its output (diode-AND
+// and diode-OR loads, counted per net) and what drives its inputs. Cells alike in every respect
+// share one situation, so the search evaluates each case once.
+import type { CellDefinition } from "../cells/types.js";
+import type { CellNetlist } from "../map/types.js";
+
+export interface Situation {
+  key: string;
+  def: CellDefinition;
+  fanin: number;
+  /** Cells in this situation. */
+  cells: number[];
+  /** Diode-AND loads on the output, per load cell id: [cellId, count]. */
+  andLoadsByType: [string, number][];
+  andLoads: number;
+  orLoads: number;
+  /** Input pins on the output net (for capacitance). */
+  loadPins: number;
+  /** Some input net of this cell also feeds diode-OR loads, so its high level is clamped. */
+  inputsSeeOrClamp: boolean;
+  /** Largest number of diode-OR loads sharing the driver of one of this cell's inputs. */
+  orDriveLoads: number;
+  /** The output is a primary output. */
+  primaryOutput: boolean;
+}
+
+export interface NetLoading {
+  andLoadsByType: Map<string, number>;
+  andLoads: number;
+  orLoads: number;
+  pins: number;
+}
+
+/** Loads on every net: distinct load cells by input kind (two pins of one cell on one net are
+ *  one load: they share that cell's pull-up or base). */
+export function netLoading(netlist: CellNetlist, defs: readonly CellDefinition[]): NetLoading[] {
+  return netlist.nets.map((net) => {
+    const seen = new Set<number>();
+    const andLoadsByType = new Map<string, number>();
+    let andLoads = 0;
+    let orLoads = 0;
+    for (const l of net.loads) {
+      if (seen.has(l.cell)) continue;
+      seen.add(l.cell);
+      const def = defs[l.cell]!;
+      if (def.inputKind === "and") {
+        andLoads++;
+        andLoadsByType.set(def.id, (andLoadsByType.get(def.id) ?? 0) + 1);
+      } else {
+        orLoads++;
+      }
+    }
+    return { andLoadsByType, andLoads, orLoads, pins: net.loads.length };
+  });
+}
+
+export interface SituationOptions {
+  /** Every output sized for this many loads (diode-AND always, diode-OR when the design has any
+   *  diode-OR cells), instead of what the netlist has. */
+  fanoutOverride?: number;
+  /** Group cells alike (uniform sizing); false gives one situation per cell. */
+  group: boolean;
+}
+
+export function buildSituations(
+  netlist: CellNetlist,
+  defs: readonly CellDefinition[],
+  opts: SituationOptions,
+): { situations: Situation[]; byCell: number[]; loading: NetLoading[] } {
+  const loading = netLoading(netlist, defs);
+  const hasOr = defs.some((d) => d.inputKind === "or");
+  const heaviestAndType = (() => {
+    // For a forced fan-out, loads are taken as the design's basic diode-AND cell.
+    const and = defs.find((d) => d.inputKind === "and" && d.variant === "basic") ?? defs.find((d) => d.inputKind === "and");
+    return and?.id;
+  })();
+  const situations: Situation[] = [];
+  const index = new Map<string, number>();
+  const byCell: number[] = [];
+  for (const cell of netlist.cells) {
+    const def = defs[cell.index]!;
+    const out = loading[cell.output]!;
+    let andLoadsByType = [...out.andLoadsByType.entries()].sort((a, b) => (a[0] < b[0] ? -1 : a[0] > b[0] ? 1 : 0));
+    let andLoads = out.andLoads;
+    let orLoads = out.orLoads;
+    let loadPins = out.pins;
+    const f = opts.fanoutOverride;
+    if (f !== undefined) {
+      andLoads = f;
+      andLoadsByType = heaviestAndType !== undefined ? [[heaviestAndType, f]] : [];
+      orLoads = hasOr ? f : 0;
+      loadPins = Math.max(loadPins, f);
+    }
+    let inputsSeeOrClamp = false;
+    let orDriveLoads = 0;
+    for (const n of cell.inputs) {
+      const l = loading[n]!;
+      const orHere = f !== undefined && hasOr ? Math.max(f, l.orLoads) : l.orLoads;
+      if (orHere > 0) inputsSeeOrClamp = true;
+      orDriveLoads = Math.max(orDriveLoads, orHere);
+    }
+    const primaryOutput = netlist.nets[cell.output]?.outputPort !== undefined;
+    const fanin = cell.inputs.length;
+    const key = opts.group
+      ? [def.id, fanin, andLoadsByType.map(([t, c]) => `${t}:${c}`).join(","), orLoads, loadPins, inputsSeeOrClamp ? 1 : 0, orDriveLoads].join("|")
+      : `cell${cell.index}`;
+    let si = index.get(key);
+    if (si === undefined) {
+      si = situations.length;
+      index.set(key, si);
+      situations.push({
+        key,
+        def,
+        fanin,
+        cells: [],
+        andLoadsByType,
+        andLoads,
+        orLoads,
+        loadPins,
+        inputsSeeOrClamp,
+        orDriveLoads,
+        primaryOutput,
+      });
+    }
+    situations[si]!.cells.push(cell.index);
+    byCell.push(si);
+  }
+  return { situations, byCell, loading };
+}

@@ -1,0 +1,1045 @@
+// sizeDesign: from a cell netlist to a sized design. Worst case over supply, temperature and
+// resistor tolerance; standard values from an IEC 60063 series; the least worst-case power that
+// meets every constraint; stable designators. Pure: no files, no console, never throws for the
+// user's mistakes.
+import { basicCellFor, cellById, CELLS, variantsFor } from "../cells/registry.js";
+import { shareFactor } from "../cells/output-stage.js";
+import type { CellDefinition, CellEnv, CellValues, ComponentStress } from "../cells/types.js";
+import { diag, type Diagnostic, type StageResult } from "../diagnostics/index.js";
+import type { CellNetlist } from "../map/types.js";
+import { formatOhms, valuesInRange } from "./eseries.js";
+import {
+  buildCorners,
+  CONSTRAINTS,
+  evaluateSituation,
+  mergeAnalyses,
+  NC,
+  type Corner,
+  type EvalContext,
+} from "./evaluate.js";
+import { resolveOptions, DEFAULTS, type ResolvedOptions } from "./options.js";
+import { chooseResistorRating, formatRating } from "./ratings.js";
+import { chooseFree, lowerBoundWatts, maxRcOhms, searchCell, type Closest, type SearchSpec } from "./search.js";
+import { buildSituations, type Situation } from "./situations.js";
+import type {
+  CellAnalysis,
+  Component,
+  PathTiming,
+  SizedCellType,
+  SizedDesign,
+  SizedInstance,
+  SizingOptions,
+} from "./types.js";
+
+export type { SizedDesign, SizingOptions } from "./types.js";
+
+interface Failure {
+  def: CellDefinition;
+  situation?: Situation;
+  closest?: Closest;
+  reason?: string;
+}
+
+interface Sized {
+  /** Values per situation index. */
+  valuesBySituation: CellValues[];
+  situations: Situation[];
+  byCell: number[];
+  /** Context used to evaluate each situation in detail. */
+  ctxFor: (s: Situation) => EvalContext;
+  heaviestLoadAmps: (c: number) => number;
+  /** Shared collector resistor of a uniform design. */
+  sharedRcOhms?: number;
+}
+
+type Outcome = { ok: true; sized: Sized } | { ok: false; failure: Failure };
+
+const RELAX: Record<string, string> = {
+  saturation:
+    "more transistor gain (--beta-min or a better part), a lower fan-out (buffer the heaviest nets), the high-fan-out variant, a narrower temperature range, or a smaller required saturation margin",
+  "noise-margin-low":
+    "a narrower temperature range (junction drops fall about 2 mV/°C when hot) or a smaller required noise margin",
+  "noise-margin-high":
+    "fewer diode-OR loads per net, more gain, or a smaller required noise margin",
+  "collector-current": "a lower speed floor (least collector current) or a wider allowed resistor range",
+  "turn-off-current": "a smaller turn-off ratio, more gain, or a delay budget instead of the speed floor",
+  "power-ceiling": "a higher power ceiling, a lower supply, or a lower fan-out",
+  "input-current": "the basic cell's pull-up allowing a heavier load, or fewer high-fan-out cells",
+  "or-drive": "fewer diode-OR loads per net",
+  "delay-fall": "a slower budget (longer delay or lower clock), less wiring capacitance, or a lower fan-out",
+  "delay-rise": "a slower budget (longer delay or lower clock), less wiring capacitance, or a lower fan-out",
+};
+
+function labelOf(id: string): string {
+  return CONSTRAINTS.find((c) => c.id === id)?.label ?? id;
+}
+
+function clampVoltsFor(env: CellEnv): number {
+  const or = CELLS.find((d) => d.inputKind === "or" && d.inputClampVolts);
+  return or?.inputClampVolts ? or.inputClampVolts(env) : env.vccVolts;
+}
+
+function uniqueDefs(situations: readonly Situation[]): CellDefinition[] {
+  const out: CellDefinition[] = [];
+  for (const s of situations) if (!out.includes(s.def)) out.push(s.def);
+  // Basic diode-AND kinds first (others' loads), then diode-OR, then variants.
+  const rank = (d: CellDefinition): number => (d.variant !== "basic" ? 2 : d.inputKind === "and" ? 0 : 1);
+  return out.sort((a, b) => rank(a) - rank(b) || CELLS.indexOf(a) - CELLS.indexOf(b));
+}
+
+// ---------------------------------------------------------------------------------------------
+// Uniform sizing
+
+interface UniformEnv {
+  o: ResolvedOptions;
+  corners: Corner[];
+  nominal: Corner;
+  grid: number[];
+  gateDelayMaxSeconds?: number;
+  disabled?: ReadonlySet<number>;
+}
+
+function makeUniformCtx(
+  u: UniformEnv,
+  self: CellDefinition,
+  chosen: Map<string, CellValues>,
+  provisional: Map<string, CellValues>,
+  opts: { sharedRcOhms?: number; cap?: boolean },
+): EvalContext {
+  const tol = u.o.resistorTolerance;
+  const basicOf = (id: string): CellDefinition | undefined => {
+    const d = cellById(id);
+    return d ? basicCellFor(d.fn) : undefined;
+  };
+  const loadAmps = (id: string, selfNow: { def: CellDefinition; values: CellValues }, t: number, env: CellEnv): number => {
+    if (id === selfNow.def.id) return selfNow.def.inputLowAmpsWorst(selfNow.values, t, env);
+    const d = cellById(id)!;
+    const v = chosen.get(id);
+    if (v) return d.inputLowAmpsWorst(v, t, env);
+    // Not sized yet: a variant is capped at its basic cell's input current.
+    const b = basicOf(id);
+    if (b && b.id !== id) {
+      if (b.id === selfNow.def.id) return b.inputLowAmpsWorst(selfNow.values, t, env);
+      const bv = chosen.get(b.id);
+      if (bv) return b.inputLowAmpsWorst(bv, t, env);
+    }
+    const pv = provisional.get(id) ?? d.exampleValues;
+    return d.inputLowAmpsWorst(pv, t, env);
+  };
+  const ctx: EvalContext = {
+    opts: u.o,
+    corners: u.corners,
+    nominal: u.nominal,
+    tol,
+    andLoadAmps: (id, _c, s, t, env) => loadAmps(id, s, t, env),
+    orClampVolts: clampVoltsFor,
+    orSourceOhms: (s, values, t, env) => {
+      const n = Math.max(1, s.orDriveLoads);
+      const rc = opts.sharedRcOhms ?? values.rcOhms!;
+      return (rc * (1 + t) * n) / shareFactor(env, n);
+    },
+    orSourceMinOhms: (values, t) => (opts.sharedRcOhms ?? values.rcOhms!) * (1 - t),
+    heaviestLoadAmps: () => 0,
+  };
+  if (u.gateDelayMaxSeconds !== undefined) ctx.gateDelayMaxSeconds = u.gateDelayMaxSeconds;
+  if (u.disabled) ctx.disabled = u.disabled;
+  if (opts.cap && self.variant !== "basic") {
+    const b = basicCellFor(self.fn);
+    const bv = chosen.get(b.id);
+    if (bv) ctx.inputCurrentCap = (c) => b.inputLowAmpsWorst(bv, tol, u.corners[c]!.env);
+  }
+  return ctx;
+}
+
+function sizeUniform(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv): Outcome {
+  const { situations, byCell } = buildSituations(netlist, defs, { group: true, ...(u.o.fanoutOverride !== undefined ? { fanoutOverride: u.o.fanoutOverride } : {}) });
+  const types = uniqueDefs(situations);
+  const sitsOf = new Map<string, Situation[]>();
+  for (const s of situations) sitsOf.set(s.def.id, [...(sitsOf.get(s.def.id) ?? []), s]);
+  const stageA = types.filter((d) => d.variant === "basic");
+  const stageB = types.filter((d) => d.variant !== "basic");
+  const grid = u.grid;
+  let provisional = new Map<string, CellValues>();
+
+  for (let pass = 0; pass < 3; pass++) {
+    // Stage A: shared R_C outermost (high values first), each basic kind searched given it.
+    const feasible: { rc: number; chosen: Map<string, CellValues>; intervals: Map<string, [number, number]>; power: number }[] = [];
+    let bestPower = Infinity;
+    const closestByType = new Map<string, Closest>();
+    const rcs = stageA.length > 0 ? [...grid].reverse() : [undefined];
+    const rcCap = maxRcOhms(makeUniformCtx(u, types[0]!, new Map(), provisional, {}));
+    for (const rc of rcs) {
+      if (rc !== undefined && rc > rcCap) continue;
+      if (rc !== undefined) {
+        let lb = 0;
+        for (const d of stageA) lb += lowerBoundWatts(sitsOf.get(d.id)!, rc, makeUniformCtx(u, d, new Map(), provisional, {}));
+        if (lb >= bestPower) break;
+      }
+      const chosen = new Map<string, CellValues>();
+      const intervals = new Map<string, [number, number]>();
+      let power = 0;
+      let failed = false;
+      for (const d of stageA) {
+        const ctx = makeUniformCtx(u, d, chosen, provisional, { sharedRcOhms: rc! });
+        const r = searchCell({ def: d, situations: sitsOf.get(d.id)!, ctx, grid, fixed: { rcOhms: rc! } });
+        if (!r.values) {
+          const prev = closestByType.get(d.id);
+          if (r.closest && (!prev || r.closest.worstMargin > prev.worstMargin)) closestByType.set(d.id, r.closest);
+          failed = true;
+          break;
+        }
+        chosen.set(d.id, r.values);
+        intervals.set(d.id, r.freeInterval!);
+        power += r.objectiveWatts!;
+      }
+      if (failed) continue;
+      feasible.push({ rc: rc ?? NaN, chosen, intervals, power });
+      if (power < bestPower) bestPower = power;
+    }
+    if (stageA.length > 0 && feasible.length === 0) {
+      // Report the kind that came closest to fitting last (the one that blocked).
+      const d = stageA.find((x) => closestByType.has(x.id)) ?? stageA[0]!;
+      const f: Failure = { def: d };
+      const cl = closestByType.get(d.id);
+      if (cl) f.closest = cl;
+      return { ok: false, failure: f };
+    }
+    feasible.sort((a, b) => a.power - b.power);
+
+    // Stage B: variants given the shared R_C, capped at the basic cell's input current.
+    let solution: { chosen: Map<string, CellValues>; intervals: Map<string, [number, number]>; rc?: number } | undefined;
+    let stageBFailure: Failure | undefined;
+    const candidates = stageA.length > 0 ? feasible.slice(0, 4) : [{ rc: NaN, chosen: new Map<string, CellValues>(), intervals: new Map<string, [number, number]>(), power: 0 }];
+    for (const cand of candidates) {
+      const chosen = new Map(cand.chosen);
+      const intervals = new Map(cand.intervals);
+      let ok = true;
+      let rcShared = Number.isNaN(cand.rc) ? undefined : cand.rc;
+      for (const d of stageB) {
+        const ctx = makeUniformCtx(u, d, chosen, provisional, { cap: true, ...(rcShared !== undefined ? { sharedRcOhms: rcShared } : {}) });
+        const fixed: CellValues = rcShared !== undefined ? { rcOhms: rcShared } : {};
+        const r = searchCell({ def: d, situations: sitsOf.get(d.id)!, ctx, grid, fixed });
+        if (!r.values) {
+          ok = false;
+          if (!stageBFailure || (r.closest && (stageBFailure.closest?.worstMargin ?? -Infinity) < r.closest.worstMargin)) {
+            stageBFailure = { def: d };
+            if (r.closest) stageBFailure.closest = r.closest;
+          }
+          break;
+        }
+        chosen.set(d.id, r.values);
+        intervals.set(d.id, r.freeInterval!);
+        if (rcShared === undefined) rcShared = r.values.rcOhms;
+      }
+      if (ok) {
+        solution = { chosen, intervals };
+        if (rcShared !== undefined) solution.rc = rcShared;
+        break;
+      }
+    }
+    if (!solution) return { ok: false, failure: stageBFailure ?? { def: stageB[0] ?? types[0]! } };
+
+    // Free parameters: best balanced margin inside each feasible interval.
+    const final = new Map<string, CellValues>();
+    for (const d of types) {
+      const ctx = makeUniformCtx(u, d, solution.chosen, provisional, { cap: true, ...(solution.rc !== undefined ? { sharedRcOhms: solution.rc } : {}) });
+      const spec: SearchSpec = { def: d, situations: sitsOf.get(d.id)!, ctx, grid, fixed: {} };
+      const c = chooseFree(spec, solution.chosen.get(d.id)!, solution.intervals.get(d.id)!);
+      final.set(d.id, c.values);
+    }
+    // Verify every situation with every final value (loads now exact).
+    const verifyCtx = (s: Situation): EvalContext => {
+      const others = new Map(final);
+      const ctx = makeUniformCtx(u, s.def, others, provisional, { cap: true, ...(solution!.rc !== undefined ? { sharedRcOhms: solution!.rc } : {}) });
+      return ctx;
+    };
+    let verified = true;
+    for (const s of situations) {
+      const m = new Float64Array(NC).fill(Infinity);
+      evaluateSituation(s, final.get(s.def.id)!, verifyCtx(s), m, false);
+      for (let i = 0; i < NC; i++) if (m[i]! < -1e-9) verified = false;
+    }
+    if (!verified && pass < 2) {
+      provisional = new Map(final);
+      continue;
+    }
+    const heaviest = (c: number): number => {
+      let x = 0;
+      for (const d of types) if (d.inputKind === "and") x = Math.max(x, d.inputLowAmpsWorst(final.get(d.id)!, u.o.resistorTolerance, u.corners[c]!.env));
+      return x;
+    };
+    const sized: Sized = {
+      valuesBySituation: situations.map((s) => final.get(s.def.id)!),
+      situations,
+      byCell,
+      ctxFor: (s) => {
+        const ctx = verifyCtx(s);
+        ctx.heaviestLoadAmps = heaviest;
+        return ctx;
+      },
+      heaviestLoadAmps: heaviest,
+    };
+    if (solution.rc !== undefined) sized.sharedRcOhms = solution.rc;
+    if (!verified) {
+      // Could not make the loads consistent: report as a failure of the first failing kind.
+      const s = situations.find((x) => {
+        const m = new Float64Array(NC).fill(Infinity);
+        evaluateSituation(x, final.get(x.def.id)!, verifyCtx(x), m, false);
+        return m.some((y) => y < -1e-9);
+      })!;
+      return { ok: false, failure: { def: s.def, situation: s, reason: "the loads between cell kinds could not be made consistent" } };
+    }
+    return { ok: true, sized };
+  }
+  return { ok: false, failure: { def: types[0]!, reason: "no consistent sizing found" } };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Per-gate sizing: each situation sized for its own load under contracts taken from the uniform
+// solution (no input may load a driver more than the uniform design's heaviest input; no driver
+// may feed diode-OR loads through more than the uniform design's source resistance per load).
+// Every per-gate problem therefore admits the uniform values, so per-gate is never worse.
+
+function sizePerGate(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv, uniform: Sized): Sized {
+  const tol = u.o.resistorTolerance;
+  const corners = u.corners;
+  const uSits = uniform.situations;
+  const uValues = uniform.valuesBySituation;
+  const lStar = (c: number): number => uniform.heaviestLoadAmps(c);
+  // Contract on diode-OR drive: the largest per-load source resistance a diode-OR input was sized for.
+  let rEqStar: number | undefined;
+  for (let i = 0; i < uSits.length; i++) {
+    const s = uSits[i]!;
+    if (s.def.inputKind !== "or") continue;
+    const n = Math.max(1, s.orDriveLoads);
+    const rc = uniform.sharedRcOhms ?? uValues[i]!.rcOhms!;
+    const r = (rc * (1 + tol) * n) / shareFactor(corners[0]!.env, n);
+    rEqStar = rEqStar === undefined ? r : Math.min(rEqStar, r);
+  }
+  const makeCtx = (): EvalContext => {
+    const ctx: EvalContext = {
+      opts: u.o,
+      corners,
+      nominal: u.nominal,
+      tol,
+      andLoadAmps: (_id, c, _self, t, env) => (c >= 0 && t > 0 ? lStar(c) : nominalLoad(env, t)),
+      orClampVolts: clampVoltsFor,
+      orSourceOhms: (_s, _values, t) => (t > 0 ? rEqStar ?? Infinity : (rEqStar ?? Infinity) / (1 + tol)),
+      orSourceMinOhms: () => (uniform.sharedRcOhms ?? 1000) * (1 - tol),
+      inputCurrentCap: lStar,
+      heaviestLoadAmps: lStar,
+    };
+    if (rEqStar !== undefined) ctx.orDriveCapOhms = rEqStar;
+    if (u.gateDelayMaxSeconds !== undefined) ctx.gateDelayMaxSeconds = u.gateDelayMaxSeconds;
+    if (u.disabled) ctx.disabled = u.disabled;
+    return ctx;
+  };
+  // Nominal load for the report's nominal point: the heaviest diode-AND input at nominal values.
+  const nominalLoad = (env: CellEnv, t: number): number => {
+    let x = 0;
+    for (let i = 0; i < uSits.length; i++) {
+      const d = uSits[i]!.def;
+      if (d.inputKind === "and") x = Math.max(x, d.inputLowAmpsWorst(uValues[i]!, t, env));
+    }
+    return x;
+  };
+  const { situations, byCell } = buildSituations(netlist, defs, { group: true, ...(u.o.fanoutOverride !== undefined ? { fanoutOverride: u.o.fanoutOverride } : {}) });
+  const valuesBySituation: CellValues[] = [];
+  const memo = new Map<string, CellValues>();
+  for (const s of situations) {
+    const key = [s.def.id, s.andLoads, s.orLoads, s.loadPins, s.inputsSeeOrClamp ? 1 : 0, s.orDriveLoads, s.fanin].join("|");
+    const hit = memo.get(key);
+    if (hit) {
+      valuesBySituation.push(hit);
+      continue;
+    }
+    const ctx = makeCtx();
+    const spec: SearchSpec = { def: s.def, situations: [s], ctx, grid: u.grid, fixed: {} };
+    const r = searchCell(spec);
+    let values: CellValues;
+    if (r.values && r.freeInterval) values = chooseFree(spec, r.values, r.freeInterval).values;
+    else {
+      // Fall back to the uniform values of this kind (they meet the contracts).
+      const ui = uSits.findIndex((x) => x.def.id === s.def.id);
+      values = uValues[ui]!;
+    }
+    memo.set(key, values);
+    valuesBySituation.push(values);
+  }
+  return { valuesBySituation, situations, byCell, ctxFor: () => makeCtx(), heaviestLoadAmps: lStar };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Forced values (checks against published examples, or a designer's own choice)
+
+function sizeForced(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv, forced: Record<string, CellValues>): Sized {
+  const { situations, byCell } = buildSituations(netlist, defs, { group: true, ...(u.o.fanoutOverride !== undefined ? { fanoutOverride: u.o.fanoutOverride } : {}) });
+  const chosen = new Map<string, CellValues>();
+  for (const s of situations) chosen.set(s.def.id, forced[s.def.id]!);
+  // Drivers of diode-OR loads: the largest R_C given (conservative).
+  let rcMax = 0;
+  for (const v of chosen.values()) rcMax = Math.max(rcMax, v.rcOhms ?? 0);
+  const heaviest = (c: number): number => {
+    let x = 0;
+    for (const [id, v] of chosen) {
+      const d = cellById(id)!;
+      if (d.inputKind === "and") x = Math.max(x, d.inputLowAmpsWorst(v, u.o.resistorTolerance, u.corners[c]!.env));
+    }
+    return x;
+  };
+  const ctxFor = (s: Situation): EvalContext => {
+    const ctx = makeUniformCtx(u, s.def, chosen, new Map(), { sharedRcOhms: rcMax });
+    ctx.heaviestLoadAmps = heaviest;
+    return ctx;
+  };
+  return { valuesBySituation: situations.map((s) => chosen.get(s.def.id)!), situations, byCell, ctxFor, heaviestLoadAmps: heaviest };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Critical path
+
+function criticalPath(netlist: CellNetlist, delays: { fall: number; rise: number }[], budget?: number): PathTiming | undefined {
+  const nCells = netlist.cells.length;
+  if (nCells === 0) return undefined;
+  const stateNets = new Set(netlist.stateNets);
+  const driverCell = (net: number): number | undefined => {
+    const d = netlist.nets[net]?.driver;
+    return d && d.kind === "cell" && !stateNets.has(net) ? d.cell : undefined;
+  };
+  const indeg = new Array<number>(nCells).fill(0);
+  const users: number[][] = Array.from({ length: nCells }, () => []);
+  for (const c of netlist.cells)
+    for (const n of c.inputs) {
+      const d = driverCell(n);
+      if (d !== undefined) {
+        indeg[c.index]!++;
+        users[d]!.push(c.index);
+      }
+    }
+  const order: number[] = [];
+  const queue: number[] = [];
+  for (let i = 0; i < nCells; i++) if (indeg[i] === 0) queue.push(i);
+  while (queue.length) {
+    const c = queue.shift()!;
+    order.push(c);
+    for (const x of users[c]!) if (--indeg[x]! === 0) queue.push(x);
+  }
+  // Arrival of each cell's output falling and rising; inverting cells: a fall follows a rise.
+  const fall = new Array<number>(nCells).fill(0);
+  const rise = new Array<number>(nCells).fill(0);
+  const fallFrom = new Array<number>(nCells).fill(-1);
+  const riseFrom = new Array<number>(nCells).fill(-1);
+  const depth = new Array<number>(nCells).fill(1);
+  for (const c of order) {
+    const cell = netlist.cells[c]!;
+    let inRise = 0;
+    let inFall = 0;
+    let rFrom = -1;
+    let fFrom = -1;
+    let dep = 0;
+    for (const n of cell.inputs) {
+      const d = driverCell(n);
+      if (d === undefined) continue;
+      if (rise[d]! > inRise || rFrom < 0) {
+        if (rise[d]! >= inRise) {
+          inRise = rise[d]!;
+          rFrom = d;
+        }
+      }
+      if (fall[d]! >= inFall) {
+        inFall = fall[d]!;
+        fFrom = d;
+      }
+      dep = Math.max(dep, depth[d]!);
+    }
+    fall[c] = inRise + delays[c]!.fall;
+    fallFrom[c] = rFrom;
+    rise[c] = inFall + delays[c]!.rise;
+    riseFrom[c] = fFrom;
+    depth[c] = dep + 1;
+  }
+  let end = -1;
+  let endRise = false;
+  let worst = -1;
+  for (const c of order) {
+    if (fall[c]! > worst) {
+      worst = fall[c]!;
+      end = c;
+      endRise = false;
+    }
+    if (rise[c]! > worst) {
+      worst = rise[c]!;
+      end = c;
+      endRise = true;
+    }
+  }
+  if (end < 0) return undefined;
+  const cells: number[] = [];
+  let c = end;
+  let isRise = endRise;
+  while (c >= 0) {
+    cells.push(c);
+    const prev = isRise ? riseFrom[c]! : fallFrom[c]!;
+    isRise = !isRise;
+    c = prev;
+  }
+  cells.reverse();
+  const nets: string[] = [];
+  const first = netlist.cells[cells[0]!]!;
+  if (first.inputs.length > 0) nets.push(netlist.nets[first.inputs[0]!]!.name);
+  for (const x of cells) nets.push(netlist.nets[netlist.cells[x]!.output]!.name);
+  const out: PathTiming = { cells, nets, delaySeconds: worst, depth: Math.max(...depth) };
+  if (budget !== undefined) out.budgetSeconds = budget;
+  return out;
+}
+
+/** Worst delay along the longest path of a sized design. */
+function pathDelayOf(netlist: CellNetlist, sized: Sized): number {
+  const bySit = sized.situations.map((s, i) => {
+    const r = evaluateSituation(s, sized.valuesBySituation[i]!, sized.ctxFor(s), new Float64Array(NC).fill(Infinity), true);
+    return { fall: r.analysis!.timing?.tPHLSeconds ?? 0, rise: r.analysis!.timing?.tPLHSeconds ?? 0 };
+  });
+  const delays = netlist.cells.map((c) => bySit[sized.byCell[c.index]!]!);
+  return criticalPath(netlist, delays)?.delaySeconds ?? 0;
+}
+
+function logicDepth(netlist: CellNetlist): number {
+  const dummy = netlist.cells.map(() => ({ fall: 1, rise: 1 }));
+  return criticalPath(netlist, dummy)?.depth ?? 1;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Building the SizedDesign
+
+function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics: Diagnostic[], notes: string[], forced: boolean): SizedDesign {
+  const o = u.o;
+  const tol = o.resistorTolerance;
+  // Detail analysis per situation.
+  const analyses: CellAnalysis[] = [];
+  const stressesBySit: Map<string, ComponentStress>[] = [];
+  sized.situations.forEach((s, i) => {
+    const m = new Float64Array(NC).fill(Infinity);
+    const r = evaluateSituation(s, sized.valuesBySituation[i]!, sized.ctxFor(s), m, true);
+    analyses.push(r.analysis!);
+    stressesBySit.push(r.stresses!);
+  });
+  // Cell types: (cell id, fan-in, values), in order of first use.
+  const typeIndex = new Map<string, number>();
+  const cellTypes: SizedCellType[] = [];
+  const typeSits: number[][] = [];
+  const typeOfCell: number[] = [];
+  const valueSetsPerShape = new Map<string, string[]>();
+  for (const cell of netlist.cells) {
+    const si = sized.byCell[cell.index]!;
+    const s = sized.situations[si]!;
+    const values = sized.valuesBySituation[si]!;
+    const vkey = s.def.parameters.map((p) => `${p.key}=${values[p.key]}`).join(",");
+    const shape = `${s.def.keyPrefix}${s.fanin}`;
+    const k = `${shape}|${vkey}`;
+    let ti = typeIndex.get(k);
+    if (ti === undefined) {
+      const sets = valueSetsPerShape.get(shape) ?? [];
+      sets.push(vkey);
+      valueSetsPerShape.set(shape, sets);
+      const key = sets.length === 1 ? shape : `${shape}_${sets.length}`;
+      ti = cellTypes.length;
+      typeIndex.set(k, ti);
+      const topo = s.def.topology(s.fanin);
+      cellTypes.push({
+        key,
+        cellId: s.def.id,
+        fn: s.def.fn,
+        fanin: s.fanin,
+        variant: s.def.variant,
+        pins: topo.pins,
+        elements: topo.components.map((c) => {
+          const e: SizedCellType["elements"][number] = { name: c.name, kind: c.kind, nodes: c.nodes };
+          if (c.valueKey) e.value = values[c.valueKey]!;
+          if (c.model) e.model = c.model === "diode" ? o.devices.diode.name : o.devices.npn.name;
+          return e;
+        }),
+        values: { ...values },
+        analysis: analyses[si]!,
+        cells: [],
+      });
+      typeSits.push([]);
+    }
+    cellTypes[ti]!.cells.push(cell.index);
+    if (!typeSits[ti]!.includes(si)) typeSits[ti]!.push(si);
+    typeOfCell.push(ti);
+  }
+  cellTypes.forEach((t, i) => (t.analysis = mergeAnalyses(typeSits[i]!.map((si) => analyses[si]!))));
+
+  // Designators: a pure function of cell order and each cell's topology.
+  const counters: Record<string, number> = { R: 0, D: 0, Q: 0, C: 0 };
+  const instances: SizedInstance[] = [];
+  const components: Component[] = [];
+  const ratingWarned = new Set<string>();
+  for (const cell of netlist.cells) {
+    const si = sized.byCell[cell.index]!;
+    const s = sized.situations[si]!;
+    const values = sized.valuesBySituation[si]!;
+    const topo = s.def.topology(s.fanin);
+    const designators: Record<string, string> = {};
+    const st = stressesBySit[si]!;
+    for (const comp of topo.components) {
+      counters[comp.kind] = (counters[comp.kind] ?? 0) + 1;
+      const des = `${comp.kind}${counters[comp.kind]}`;
+      designators[comp.name] = des;
+      const stress = st.get(comp.name);
+      if (comp.kind === "R") {
+        const ohms = values[comp.valueKey!]!;
+        const watts = stress?.powerWatts ?? 0;
+        const rating = chooseResistorRating(watts);
+        const c: Component = {
+          designator: des,
+          kind: "R",
+          value: ohms,
+          valueText: formatOhms(ohms),
+          tolerance: tol,
+          description: `resistor ${formatOhms(ohms)} ${formatPercent(tol)}, ${rating !== undefined ? formatRating(rating) : "over 2 W"}`,
+          instance: cell.index,
+          role: comp.name,
+          worstPowerWatts: watts,
+        };
+        if (rating !== undefined) c.powerRatingWatts = rating;
+        else {
+          c.powerRatingWatts = 2;
+          const w = `${s.def.id}/${comp.name}`;
+          if (!ratingWarned.has(w)) {
+            ratingWarned.add(w);
+            diagnostics.push(diag("GW5002", `${comp.name} of ${s.def.title} dissipates up to ${fmt(watts)} W, more than half of the largest standard rating (2 W)`, undefined, { hint: "use larger resistor values, a lower supply, or a power resistor rated for it" }));
+          }
+        }
+        components.push(c);
+      } else {
+        const isDiode = comp.kind === "D";
+        const card = isDiode ? o.devices.diode : o.devices.npn;
+        const c: Component = {
+          designator: des,
+          kind: comp.kind,
+          value: 0,
+          valueText: card.partNumber ?? card.name,
+          description: card.description,
+          instance: cell.index,
+          role: comp.name,
+        };
+        if (card.partNumber !== undefined) c.partNumber = card.partNumber;
+        if (stress) c.worstPowerWatts = stress.powerWatts;
+        components.push(c);
+        // Ratings of the semiconductors.
+        if (stress) {
+          const w = `${s.def.id}/${comp.name}`;
+          const problems: string[] = [];
+          if (isDiode) {
+            if ((stress.currentAmps ?? 0) > o.devices.diodeForwardMaxAmps) problems.push(`forward current ${fmt((stress.currentAmps ?? 0) * 1e3)} mA > ${fmt(o.devices.diodeForwardMaxAmps * 1e3)} mA`);
+            if ((stress.voltageVolts ?? 0) > o.devices.diodeReverseMaxVolts) problems.push(`reverse voltage ${fmt(stress.voltageVolts ?? 0)} V > ${fmt(o.devices.diodeReverseMaxVolts)} V`);
+          } else {
+            if ((stress.currentAmps ?? 0) > o.devices.npnIcMaxAmps) problems.push(`collector current ${fmt((stress.currentAmps ?? 0) * 1e3)} mA > ${fmt(o.devices.npnIcMaxAmps * 1e3)} mA`);
+            if ((stress.voltageVolts ?? 0) > o.devices.npnVceMaxVolts) problems.push(`collector-emitter voltage ${fmt(stress.voltageVolts ?? 0)} V > ${fmt(o.devices.npnVceMaxVolts)} V`);
+            if (stress.powerWatts > o.devices.npnPowerMaxWatts) problems.push(`dissipation ${fmt(stress.powerWatts)} W > ${fmt(o.devices.npnPowerMaxWatts)} W`);
+          }
+          if (problems.length > 0 && !ratingWarned.has(w)) {
+            ratingWarned.add(w);
+            diagnostics.push(diag("GW5002", `${comp.name} (${card.partNumber ?? card.name}) of ${s.def.title}: ${problems.join("; ")}`, undefined, { hint: "choose a part with higher ratings in the parts file, or a lower supply" }));
+          }
+        }
+      }
+    }
+    instances.push({ cell: cell.index, cellType: typeOfCell[cell.index]!, designators, analysis: analyses[si]! });
+  }
+
+  // Totals.
+  let pWorst = 0;
+  let iWorst = 0;
+  let pNom = 0;
+  let iNom = 0;
+  for (const inst of instances) {
+    const a = inst.analysis;
+    pWorst += Math.max(a.powerLowWatts, a.powerHighWatts);
+    iWorst += a.supplyCurrentAmps;
+    pNom += (a.nominal.powerLowWatts + a.nominal.powerHighWatts) / 2;
+    iNom += (a.nominal.supplyCurrentLowAmps + a.nominal.supplyCurrentHighAmps) / 2;
+  }
+  const count = (k: string): number => components.filter((c) => c.kind === k).length;
+  const distinct = new Set(components.filter((c) => c.kind === "R").map((c) => c.value)).size;
+
+  // Timing and the critical path.
+  const delays = instances.map((i) => ({ fall: i.analysis.timing?.tPHLSeconds ?? 0, rise: i.analysis.timing?.tPLHSeconds ?? 0 }));
+  const path = criticalPath(netlist, delays, o.pathDelayMaxSeconds);
+  if (path && o.pathDelayMaxSeconds !== undefined && path.delaySeconds > o.pathDelayMaxSeconds * (1 + 1e-9) && !forced) {
+    notes.push(`The longest path takes ${fmt(path.delaySeconds * 1e9)} ns against a budget of ${fmt(o.pathDelayMaxSeconds * 1e9)} ns.`);
+  }
+
+  for (const t of cellTypes) {
+    const b = t.analysis.constraints.find((c) => c.id === t.analysis.binding);
+    if (b) notes.push(`${t.key}: binding constraint ${b.label}, margin ${fmt(b.margin * 100)} % at ${b.corner}.`);
+  }
+  if (forced) {
+    for (const t of cellTypes)
+      for (const c of t.analysis.constraints)
+        if (!c.ok) {
+          diagnostics.push(
+            diag(c.id === "saturation" ? "GW5004" : "GW5004", `${t.key} with the given values: ${c.label} is ${fmt(c.value)} ${c.unit} against ${fmt(c.limit)} ${c.unit} at ${c.corner}`, undefined, { severity: "warning" }),
+          );
+        }
+  }
+
+  const design: SizedDesign = {
+    netlist,
+    parameters: o.parameters,
+    models: { diode: o.devices.diode, npn: o.devices.npn },
+    cellTypes,
+    instances,
+    components,
+    totals: {
+      staticPowerWatts: pWorst,
+      supplyCurrentAmps: iWorst,
+      staticPowerNominalWatts: pNom,
+      supplyCurrentNominalAmps: iNom,
+      transistors: count("Q"),
+      diodes: count("D"),
+      resistors: count("R"),
+      capacitors: count("C"),
+      distinctResistorValues: distinct,
+    },
+    mode: o.mode,
+    series: o.series,
+    resistorTolerance: tol,
+    corners: u.corners.map((c) => c.label),
+    inputDriver: { pullUpOhms: sized.sharedRcOhms ?? maxRc(cellTypes), vLowVolts: o.devices.vCESatVolts },
+    notes,
+  };
+  if (path) design.criticalPath = path;
+  return design;
+}
+
+function maxRc(types: SizedCellType[]): number {
+  let x = 0;
+  for (const t of types) x = Math.max(x, t.values.rcOhms ?? 0);
+  return x;
+}
+
+function fmt(x: number): string {
+  if (!Number.isFinite(x)) return String(x);
+  return Number(x.toPrecision(3)).toString();
+}
+
+function formatPercent(f: number): string {
+  return `${Number((f * 100).toPrecision(3))} %`;
+}
+
+interface Attempt {
+  outcome: Outcome;
+  defs: CellDefinition[];
+  triedVariant: boolean;
+  variantNote?: string;
+}
+
+/** Uniform sizing with the basic cells; when that fails, the fewest heaviest-loaded NAND cells
+ *  moved to the high-fan-out variant that make it fit. */
+function attemptAll(netlist: CellNetlist, u: UniformEnv): Attempt {
+  const o = u.o;
+  const basic = netlist.cells.map((c) => basicCellFor(c.fn));
+  const outcome = sizeUniform(netlist, basic, u);
+  if (outcome.ok || o.variants !== "auto") return { outcome, defs: basic, triedVariant: false };
+  const variant = variantsFor("nand")[0];
+  const loading = buildSituations(netlist, basic, { group: false, ...(o.fanoutOverride !== undefined ? { fanoutOverride: o.fanoutOverride } : {}) });
+  const fanoutOf = (cell: number): number => loading.situations[loading.byCell[cell]!]!.andLoads;
+  const nandCells = netlist.cells.filter((c) => c.fn === "nand").map((c) => c.index);
+  if (!variant || nandCells.length === 0) return { outcome, defs: basic, triedVariant: false };
+  // The variant only adds drive: if the basic cells fail even without the saturation
+  // constraint, no variant can help.
+  const satIndex = CONSTRAINTS.findIndex((c) => c.id === "saturation");
+  if (!u.disabled?.has(satIndex)) {
+    const withoutSat = sizeUniform(netlist, basic, { ...u, disabled: new Set([...(u.disabled ?? []), satIndex]) });
+    if (!withoutSat.ok) return { outcome, defs: basic, triedVariant: false };
+  }
+  const levels = [...new Set(nandCells.map(fanoutOf))].sort((a, b) => a - b);
+  // Threshold t: cells with fan-out above levels[t] get the variant; t = −1 moves them all.
+  const defsAt = (t: number): CellDefinition[] => {
+    const th = t < 0 ? -Infinity : levels[t]!;
+    return netlist.cells.map((c) => (c.fn === "nand" && fanoutOf(c.index) > th ? variant : basicCellFor(c.fn)));
+  };
+  // Largest threshold that fits (fewest cells moved); levels.length − 1 is the all-basic case,
+  // which failed. Feasibility only grows as the threshold falls, so bisect, trying the largest
+  // threshold first (usually enough).
+  let found: { t: number; out: Outcome } | undefined;
+  let lo = -1;
+  let hi = levels.length - 2;
+  const firstTry = sizeUniform(netlist, defsAt(hi), u);
+  if (firstTry.ok) found = { t: hi, out: firstTry };
+  else {
+    hi--;
+    while (lo <= hi) {
+      const mid = (lo + hi + 1) >> 1;
+      const out = sizeUniform(netlist, defsAt(mid), u);
+      if (out.ok) {
+        found = { t: mid, out };
+        lo = mid + 1;
+      } else hi = mid - 1;
+    }
+  }
+  if (!found) return { outcome, defs: basic, triedVariant: true };
+  const defs = defsAt(found.t);
+  const promoted = nandCells.filter((c) => defs[c] === variant);
+  const smallest = Math.min(...promoted.map(fanoutOf));
+  const note =
+    `the basic NAND cannot drive a fan-out of ${smallest} at every corner; ` +
+    `${promoted.length} cell${promoted.length === 1 ? " with that fan-out or more uses" : "s with that fan-out or more use"} the high-fan-out variant (${variant.source})`;
+  return { outcome: found.out, defs, triedVariant: true, variantNote: note };
+}
+
+/** Which constraint blocks an infeasible request: the ones whose removal alone lets the search
+ *  succeed, with how far the relaxed design misses them. */
+function explainFailure(netlist: CellNetlist, u: UniformEnv, first: Attempt): Diagnostic {
+  const o = u.o;
+  if (first.outcome.ok) throw new Error("explainFailure on a success");
+  const f = first.outcome.failure;
+  const active = CONSTRAINTS.map((c, i) => ({ c, i })).filter(({ c }) => {
+    if (c.id === "power-ceiling") return o.powerCeilingWatts !== undefined;
+    if (c.id === "delay-fall" || c.id === "delay-rise") return u.gateDelayMaxSeconds !== undefined;
+    if (c.id === "turn-off-current") return o.turnOffRatioMin > 0;
+    return c.id !== "input-current" && c.id !== "or-drive";
+  });
+  const blockers: { id: string; i: number; reached: number }[] = [];
+  for (const { c, i } of active) {
+    const relaxed = attemptAll(netlist, { ...u, disabled: new Set([...(u.disabled ?? []), i]) });
+    if (!relaxed.outcome.ok) continue;
+    blockers.push({ id: c.id, i, reached: worstValue(relaxed.outcome.sized, i) });
+  }
+  const loading = buildSituations(netlist, first.defs, { group: true, ...(o.fanoutOverride !== undefined ? { fanoutOverride: o.fanoutOverride } : {}) });
+  const maxFan = Math.max(0, ...loading.situations.map((s) => s.andLoads + s.orLoads));
+  const where = ` (largest fan-out ${maxFan})`;
+  if (blockers.length > 0) {
+    // The first blocker in catalogue order (saturation before noise margins before speed ...).
+    const b0 = blockers[0]!;
+    const spec = CONSTRAINTS[b0.i]!;
+    const limit = limitOf(u, spec.id);
+    // Best value any design reaches: bisect the requirement between what the relaxed design
+    // reached and the limit.
+    let best = b0.reached;
+    if (limit !== undefined && Number.isFinite(best)) {
+      let good = best;
+      let bad = limit;
+      for (let k = 0; k < 6; k++) {
+        const mid = (good + bad) / 2;
+        const tightened = withLimit(u, spec.id, mid);
+        if (attemptAll(netlist, tightened).outcome.ok) good = mid;
+        else bad = mid;
+      }
+      best = good;
+    }
+    const alt = blockers.slice(1).map((b) => labelOf(b.id));
+    const unit = spec.unit ? ` ${spec.unit}` : "";
+    let msg = `${f.def.title}${where}: no ${o.series} values meet every constraint at every corner; ${labelOf(b0.id)} fails first`;
+    if (limit !== undefined) msg += `: the best design reaches ${fmt(best)}${unit} against ${spec.sense === "min" ? "at least" : "at most"} ${fmt(limit)}${unit} required`;
+    if (alt.length) msg += ` (relaxing ${alt.length === 1 ? "" : "any one of "}${alt.join(", ")} instead would also let it fit)`;
+    let hint = `what would relax it: ${RELAX[b0.id] ?? "a looser requirement"}`;
+    if (first.triedVariant && b0.id === "saturation") hint += "; the high-fan-out variant was tried and does not fit either";
+    return diag("GW5001", msg, undefined, { hint });
+  }
+  return failureDiagnostic(f, o, first.triedVariant);
+}
+
+/** Worst value of constraint `i` over a sized design, evaluated with every constraint on. */
+function worstValue(sized: Sized, i: number): number {
+  const spec = CONSTRAINTS[i]!;
+  let worst = spec.sense === "min" ? Infinity : -Infinity;
+  sized.situations.forEach((s, k) => {
+    const ctx = { ...sized.ctxFor(s) };
+    delete ctx.disabled;
+    const r = evaluateSituation(s, sized.valuesBySituation[k]!, ctx, new Float64Array(NC).fill(Infinity), true);
+    const c = r.analysis!.constraints.find((x) => x.id === spec.id);
+    if (c) worst = spec.sense === "min" ? Math.min(worst, c.value) : Math.max(worst, c.value);
+  });
+  return worst;
+}
+
+function limitOf(u: UniformEnv, id: string): number | undefined {
+  const o = u.o;
+  switch (id) {
+    case "saturation":
+      return o.saturationMarginMin;
+    case "noise-margin-low":
+    case "noise-margin-high":
+      return o.noiseMarginMinVolts;
+    case "collector-current":
+      return o.collectorCurrentMinAmps;
+    case "turn-off-current":
+      return o.turnOffRatioMin;
+    case "power-ceiling":
+      return o.powerCeilingWatts;
+    case "delay-fall":
+    case "delay-rise":
+      return u.gateDelayMaxSeconds;
+    default:
+      return undefined;
+  }
+}
+
+function withLimit(u: UniformEnv, id: string, v: number): UniformEnv {
+  const o = { ...u.o };
+  switch (id) {
+    case "saturation":
+      o.saturationMarginMin = v;
+      break;
+    case "noise-margin-low":
+    case "noise-margin-high":
+      o.noiseMarginMinVolts = v;
+      break;
+    case "collector-current":
+      o.collectorCurrentMinAmps = v;
+      break;
+    case "turn-off-current":
+      o.turnOffRatioMin = v;
+      break;
+    case "power-ceiling":
+      o.powerCeilingWatts = v;
+      break;
+    case "delay-fall":
+    case "delay-rise":
+      return { ...u, o, gateDelayMaxSeconds: v };
+  }
+  return { ...u, o };
+}
+
+function failureDiagnostic(f: Failure, o: ResolvedOptions, triedVariant: boolean): Diagnostic {
+  const where = f.situation ? ` (fan-out ${f.situation.andLoads + f.situation.orLoads})` : "";
+  if (f.closest && f.closest.failing.length > 0) {
+    const first = f.closest.failing[0]!;
+    const i = CONSTRAINTS.findIndex((c) => c.id === first);
+    const m = f.closest.margins[i]!;
+    const others = f.closest.failing.slice(1).map(labelOf);
+    const vals = f.def.parameters.map((p) => `${p.role} ${formatOhms(f.closest!.values[p.key]!)}`).join(", ");
+    let msg = `${f.def.title}${where}: no ${o.series} values meet every constraint at every corner; ${labelOf(first)} fails first (closest candidate ${vals} misses it by ${fmt(-m * 100)} %)`;
+    if (others.length) msg += `; also failing there: ${others.join(", ")}`;
+    let hint = `what would relax it: ${RELAX[first] ?? "a looser requirement"}`;
+    if (triedVariant && first === "saturation") hint += " (the high-fan-out variant was tried and did not fit either)";
+    return diag("GW5001", msg, undefined, { hint });
+  }
+  return diag("GW5001", `${f.def.title}${where}: no ${o.series} values meet the constraints${f.reason ? `: ${f.reason}` : ""}`, undefined, {
+    hint: "widen the allowed resistor range, allow more gain or a lower fan-out",
+  });
+}
+
+/** Sizes every cell of the netlist. */
+export function sizeDesign(netlist: CellNetlist, options: SizingOptions): StageResult<SizedDesign> {
+  const r = resolveOptions(options);
+  if (!r.value) return { diagnostics: r.diagnostics };
+  const o = r.value;
+  const diagnostics: Diagnostic[] = [...r.diagnostics];
+  const notes: string[] = [];
+  if (netlist.cells.length === 0) {
+    diagnostics.push(diag("GW5001", "the design has no cells to size", undefined, { hint: "every output is a constant or an input" }));
+    return { diagnostics };
+  }
+  const grid = valuesInRange(o.series, o.resistorMinOhms, o.resistorMaxOhms);
+  if (grid.length < 2) {
+    diagnostics.push(diag("GW6003", `the allowed resistor range holds fewer than two ${o.series} values`));
+    return { diagnostics };
+  }
+  const { corners, nominal } = buildCorners(o);
+  const u: UniformEnv = { o, corners, nominal, grid };
+  if (o.gateDelayMaxSeconds !== undefined) u.gateDelayMaxSeconds = o.gateDelayMaxSeconds;
+
+  if (o.supplyVolts * (1 + o.supplyTolerance) > DEFAULTS.cautionSupplyVolts) {
+    diagnostics.push(
+      diag("GW5003", `supply up to ${fmt(o.supplyVolts * (1 + o.supplyTolerance))} V: check every resistor's power rating and every part's voltage rating at this supply`, undefined, {
+        hint: "work on mains-powered equipment only with proper isolation and qualified practice, follow local codes, and confirm the design by simulation and measurement",
+      }),
+    );
+  }
+
+  let defs: CellDefinition[] = netlist.cells.map((c) => basicCellFor(c.fn));
+
+  if (o.forcedValues) {
+    const missing = [...new Set(defs.map((d) => d.id))].filter((id) => {
+      const v = o.forcedValues![id];
+      return !v || cellById(id)!.parameters.some((p) => !(v[p.key]! > 0));
+    });
+    if (missing.length) {
+      diagnostics.push(diag("GW6001", `given values are incomplete for: ${missing.join(", ")}`, undefined, { hint: `give ${missing.map((id) => cellById(id)!.parameters.map((p) => p.key).join(", ")).join("; ")}` }));
+      return { diagnostics };
+    }
+    const sized = sizeForced(netlist, defs, u, o.forcedValues);
+    return { value: assemble(netlist, u, sized, diagnostics, notes, true), diagnostics };
+  }
+
+  // A path budget becomes a per-gate budget: the largest one whose design still meets the path
+  // budget (bisected between budget/depth and the whole budget), since slower gates cost less.
+  const runWith = (uu: UniformEnv): { attempt: Attempt; sized?: Sized } => {
+    const attempt = attemptAll(netlist, uu);
+    if (!attempt.outcome.ok) return { attempt };
+    let sized = attempt.outcome.sized;
+    if (o.mode === "per-gate") sized = sizePerGate(netlist, attempt.defs, uu, sized);
+    return { attempt, sized };
+  };
+  let chosen: { attempt: Attempt; sized?: Sized; u: UniformEnv } | undefined;
+  if (o.pathDelayMaxSeconds === undefined) {
+    chosen = { ...runWith(u), u };
+  } else {
+    const budget = o.pathDelayMaxSeconds;
+    const cap = o.gateDelayMaxSeconds ?? Infinity;
+    let lo = budget / logicDepth(netlist);
+    let hi = Math.min(budget, cap);
+    let lastFailure: { attempt: Attempt; u: UniformEnv } | undefined;
+    let fastest = Infinity;
+    const tryBudget = (g: number): "ok" | "slow" | "infeasible" => {
+      const uu = { ...u, gateDelayMaxSeconds: g };
+      const r = runWith(uu);
+      if (!r.sized) {
+        lastFailure = { attempt: r.attempt, u: uu };
+        return "infeasible";
+      }
+      const delay = pathDelayOf(netlist, r.sized);
+      fastest = Math.min(fastest, delay);
+      if (delay <= budget * (1 + 1e-9)) {
+        if (!chosen || g > (chosen.u.gateDelayMaxSeconds ?? 0)) chosen = { ...r, u: uu };
+        return "ok";
+      }
+      return "slow";
+    };
+    if (tryBudget(hi) !== "ok") {
+      for (let k = 0; k < 7; k++) {
+        const mid = Math.sqrt(lo * hi);
+        const r = tryBudget(mid);
+        if (r === "ok") lo = mid;
+        else if (r === "slow") hi = mid;
+        else lo = mid; // too tight to build at all: the answer lies above
+      }
+      if (!chosen) {
+        // Try the tightest per-gate budget as a last resort.
+        tryBudget(budget / logicDepth(netlist));
+      }
+    }
+    if (!chosen) {
+      if (lastFailure && !Number.isFinite(fastest)) {
+        diagnostics.push(explainFailure(netlist, lastFailure.u, lastFailure.attempt));
+      } else {
+        diagnostics.push(
+          diag("GW5001", `no ${o.series} values meet the path delay budget of ${fmt(budget * 1e9)} ns: the fastest design found takes ${fmt(fastest * 1e9)} ns along its longest path`, undefined, {
+            hint: `what would relax it: ${RELAX["delay-rise"]}, or fewer logic levels on the longest path`,
+          }),
+        );
+      }
+      return { diagnostics };
+    }
+  }
+  const first = chosen.attempt;
+  if (!first.outcome.ok || !chosen.sized) {
+    diagnostics.push(explainFailure(netlist, chosen.u, first));
+    return { diagnostics };
+  }
+  if (first.variantNote) {
+    diagnostics.push(diag("GW5005", first.variantNote));
+    notes.push(`High-fan-out variant: ${first.variantNote}.`);
+  }
+  const sized = chosen.sized;
+  const uFinal = chosen.u;
+  if (uFinal.gateDelayMaxSeconds !== undefined && o.pathDelayMaxSeconds !== undefined) {
+    notes.push(`Each gate was held to ${fmt(uFinal.gateDelayMaxSeconds * 1e9)} ns so that the longest path meets ${fmt(o.pathDelayMaxSeconds * 1e9)} ns.`);
+  }
+  const design = assemble(netlist, uFinal, sized, diagnostics, notes, false);
+  return { value: design, diagnostics };
+}

@@ -1,0 +1,250 @@
+// Switching times by charge control (Moll, Proc. IRE 42, 1954; Millman & Taub, Pulse, Digital
+// and Switching Waveforms). Inputs switch as ideal steps; delays are to the output crossing 50 %
+// of its swing (V_OL..V_OH).
+//
+// Output falling (t_PHL): the input node charges through its pull-up to the level where the
+// path conducts; the base current I_B1 then charges the emitter junction, supplies the Miller
+// charge of the collector junction while the output swings, and builds up the base charge
+// (collector current rising with τ_β = β·τ_F, Turn-on 10–90 %: τ·ln((β·I_B1 − 0.1·I_C)/(β·I_B1 − 0.9·I_C))).
+// Output rising (t_PLH): storage time t_s = τ_s·ln((I_B1 + I_B2)/(I_B2 + I_C/β)) with the
+// reverse base current I_B2 = V_BE/R_B, then the collector current decays and R_C charges the
+// output node (load inputs, wiring and the collector junction).
+import type { CellDefinition, CellEnv, CellOperatingPoint, CellValues, InputDrive, OutputLoad } from "../cells/types.js";
+import type { CellTiming } from "./types.js";
+
+/** Storage time by charge control: t_s = τ_s·ln((I_B1 + I_B2)/(I_B2 + I_C/β)). */
+export function storageTimeSeconds(tauSSeconds: number, iB1Amps: number, iB2Amps: number, iCAmps: number, beta: number): number {
+  const num = iB1Amps + iB2Amps;
+  const den = iB2Amps + iCAmps / beta;
+  if (!(den > 0) || num <= den) return 0;
+  return tauSSeconds * Math.log(num / den);
+}
+
+/** Turn-on (collector current 10–90 %): τ·ln((β·I_B1 − 0.1·I_C)/(β·I_B1 − 0.9·I_C)). */
+export function turnOnTimeSeconds(tauSeconds: number, iB1Amps: number, iCAmps: number, beta: number): number {
+  const drive = beta * iB1Amps;
+  if (drive <= 0.9 * iCAmps) return Infinity;
+  return tauSeconds * Math.log((drive - 0.1 * iCAmps) / (drive - 0.9 * iCAmps));
+}
+
+/** Fall of the collector current (90–10 %): τ·ln((0.9·I_C + β·I_B2)/(0.1·I_C + β·I_B2)). */
+export function fallTimeSeconds(tauSeconds: number, iB2Amps: number, iCAmps: number, beta: number): number {
+  return tauSeconds * Math.log((0.9 * iCAmps + beta * iB2Amps) / (0.1 * iCAmps + beta * iB2Amps));
+}
+
+/** Storage time constant of a transistor from its SPICE transit times (Ebers–Moll charge control):
+ *  τ_s = (TF + α_R·TR)/(1/BF + 1/(1 + BR)), α_R = BR/(1 + BR). */
+export function storageTimeConstantSeconds(npn: Record<string, number>): number {
+  const tf = npn.TF ?? 0;
+  const tr = npn.TR ?? 0;
+  const bf = npn.BF ?? 100;
+  const br = npn.BR ?? 1;
+  const alphaR = br / (1 + br);
+  return (tf + alphaR * tr) / (1 / bf + 1 / (1 + br));
+}
+
+/** Mean depletion capacitance of a junction as its voltage moves between v1 and v2 (forward
+ *  positive), from the SPICE depletion charge; forward bias is capped at FC·VJ (FC = 0.5). */
+export function meanJunctionCapacitanceFarads(cj0: number, vj: number, m: number, v1: number, v2: number): number {
+  if (cj0 <= 0) return 0;
+  const cap = 0.5 * vj;
+  const a = Math.min(v1, cap);
+  const b = Math.min(v2, cap);
+  if (Math.abs(a - b) < 1e-9) return cj0 / (1 - Math.min(a, cap) / vj) ** m;
+  const q = (v: number): number => ((cj0 * vj) / (1 - m)) * (1 - (1 - v / vj) ** (1 - m));
+  return Math.abs((q(a) - q(b)) / (a - b));
+}
+
+const BOLTZMANN_OVER_Q = 1.380649e-23 / 1.602176634e-19;
+
+/** Junction drops of the SPICE models at typical switching currents (diode 0.5 mA, transistor
+ *  1 mA), at `tempC` with −2 mV/°C from 25 °C. Timing uses these: the book's 0.7/0.8 V are
+ *  deliberately pessimistic for DC levels and would understate the base drive. */
+export function typicalDrops(
+  diode: Record<string, number>,
+  npn: Record<string, number>,
+  tempC: number,
+  tcVoltsPerC: number,
+): { vDiodeOnVolts: number; vBEActiveVolts: number; vBESatVolts: number } {
+  const vt = BOLTZMANN_OVER_Q * (25 + 273.15);
+  const dIs = diode.IS ?? 1e-14;
+  const dN = diode.N ?? 1;
+  const qIs = npn.IS ?? 1e-16;
+  const qN = npn.NF ?? 1;
+  const shift = tcVoltsPerC * (tempC - 25);
+  const vD = dN * vt * Math.log(0.5e-3 / dIs) + shift;
+  const vBE = qN * vt * Math.log(1e-3 / qIs) + shift;
+  // In saturation the base-emitter drop sits a little higher (forced gain well below BF).
+  return { vDiodeOnVolts: vD, vBEActiveVolts: vBE, vBESatVolts: vBE + 0.04 };
+}
+
+export interface TimingInputs {
+  def: CellDefinition;
+  values: CellValues;
+  env: CellEnv;
+  load: OutputLoad;
+  drive: InputDrive;
+  op: CellOperatingPoint;
+  npn: Record<string, number>;
+  diode: Record<string, number>;
+  fanin: number;
+  /** Wiring capacitance on the input node (diode-OR inputs are charged by their driver). */
+  inputWiringFarads?: number;
+}
+
+/** Time for the output to rise from vFrom to vTo when R_C pulls it toward vTarget through
+ *  capacitance cTotal, while the collector junction's Miller current must be carried off by the
+ *  reverse base current: the slope is min(I_B2/C_jc, (vTarget − v)/(R_C·C)). */
+export function millerLimitedRiseSeconds(
+  vFrom: number,
+  vTo: number,
+  vTarget: number,
+  rcOhms: number,
+  cTotalFarads: number,
+  iB2Amps: number,
+  cjcFarads: number,
+): number {
+  if (vTo <= vFrom) return 0;
+  const tau = rcOhms * cTotalFarads;
+  const rc = (v1: number, v2: number): number => (vTarget > v2 ? tau * Math.log((vTarget - v1) / (vTarget - v2)) : Infinity);
+  if (!(cjcFarads > 0) || !(iB2Amps > 0)) return rc(vFrom, vTo);
+  const slew = iB2Amps / cjcFarads;
+  // Where the two limits meet.
+  const vStar = vTarget - slew * tau;
+  if (vStar >= vTo) return (vTo - vFrom) / slew;
+  if (vStar > vFrom) return (vStar - vFrom) / slew + rc(vStar, vTo);
+  return rc(vFrom, vTo);
+}
+
+/** Depletion charge moved when a junction's voltage goes from v1 to v2 (forward positive). */
+function depletionCharge(cj0: number, vj: number, m: number, v1: number, v2: number): number {
+  return meanJunctionCapacitanceFarads(cj0, vj, m, v1, v2) * Math.abs(v2 - v1);
+}
+
+const lsCache = new WeakMap<CellDefinition, number>();
+
+/** Number of level-shift diodes in a cell's topology. */
+function levelShiftDiodes(def: CellDefinition): number {
+  let n = lsCache.get(def);
+  if (n === undefined) {
+    n = def.topology(1).components.filter((c) => c.role === "DLS").length;
+    lsCache.set(def, n);
+  }
+  return n;
+}
+
+/** Propagation delays of a cell for an input stepping fast between the driver's low and high
+ *  levels (a voltage step for diode-AND inputs; through the driver's pull-up for diode-OR
+ *  inputs), with the real load on the output, measured at 50 % of each swing. */
+export function cellTiming(t: TimingInputs): CellTiming {
+  const { def, values, env, load, op, npn, diode } = t;
+  const d = env.dev;
+  const vcc = env.vccVolts;
+  const tf = npn.TF ?? 0;
+  const cje = npn.CJE ?? 0;
+  const cjc = npn.CJC ?? 0;
+  const vje = npn.VJE ?? 0.75;
+  const mje = npn.MJE ?? 0.33;
+  const vjc = npn.VJC ?? 0.75;
+  const mjc = npn.MJC ?? 0.33;
+  const cjd = diode.CJO ?? diode.CJ0 ?? 0;
+  const vjd = diode.VJ ?? 1;
+  const md = diode.M ?? 0.5;
+  const ttd = diode.TT ?? 0;
+  const rc = values.rcOhms!;
+  const vOL = op.vOLVolts;
+  const vOH = op.vOHVolts;
+  const v50 = (vOL + vOH) / 2;
+  const iB1 = Math.max(op.iBAmps, 1e-12);
+  const iCs = op.iCAmps + op.iLoadAmps;
+  const betaOn = d.betaMin;
+  const betaOff = d.betaMax;
+  const vBE = d.vBEActiveVolts;
+  const nLs = levelShiftDiodes(def);
+  const andInput = def.inputKind === "and";
+  const vPLow = d.vCESatVolts + d.vDiodeOnVolts;
+  const vPOn = op.vInputNodeVolts;
+
+  // --- Output falling -------------------------------------------------------------------
+  // Charge the base side needs to bring the output to 50 %: the input node up to its on level
+  // (diode-AND cells), the emitter junction to V_BE, the collector junction's Miller charge over
+  // the swing, and the base charge τ_F·I_C behind the collector current.
+  let qNode = 0;
+  let qKick = 0;
+  let tNode = 0;
+  let qBase = depletionCharge(cje, vje, mje, 0, d.vBECutInVolts) +
+    meanJunctionCapacitanceFarads(cje, vje, mje, 0, d.vBECutInVolts) * (vBE - d.vBECutInVolts) +
+    depletionCharge(cjc, vjc, mjc, vBE - vOH, vBE - v50) +
+    tf * iCs;
+  if (andInput) {
+    // Node capacitance: the other input diodes, and the level-shift diodes (or the follower).
+    const cOthers = (t.fanin - 1) * meanJunctionCapacitanceFarads(cjd, vjd, md, -(vOH - vPLow), -(vOH - vPOn));
+    // The stepped input diode hands its stored and depletion charge to the node as it recovers.
+    qKick = ttd * op.inputLowAmps + depletionCharge(cjd, vjd, md, d.vDiodeOnVolts, vPOn - vOH);
+    if (def.timingHints?.follower) {
+      // The follower's base (the input node) is raised by the pull-up alone, charging the other
+      // input diodes and the follower's junctions; once it conducts, its emitter current drives
+      // the output transistor.
+      const cFollower =
+        meanJunctionCapacitanceFarads(cje, vje, mje, 0, d.vBECutInVolts) +
+        meanJunctionCapacitanceFarads(cjc, vjc, mjc, vPLow - vcc, vPOn - vcc);
+      qNode = (cOthers + cFollower) * Math.max(0, vPOn - vPLow);
+      const rPull = def.timingHints.nodePullUpKeys.reduce((acc, k) => acc + (values[k] ?? 0), 0);
+      const iNode = Math.max(vcc - (vPLow + vPOn) / 2, 1e-3) / rPull;
+      tNode = Math.max(0, qNode - qKick) / iNode;
+      qKick = Math.max(0, qKick - qNode);
+    } else {
+      const cLs = nLs > 0 ? meanJunctionCapacitanceFarads(cjd, vjd, md, 0, d.vDiodeCutInVolts) / nLs : 0;
+      qNode = (cOthers + cLs) * Math.max(0, vPOn - vPLow);
+      qBase += qNode;
+    }
+  } else {
+    // Diode-OR input: the driver's pull-up raises the input from its 50 % level to where the
+    // path conducts (just below the clamp), charging the input diode, the common node and wiring.
+    const clamp = load.orClampVolts > 0 ? Math.min(vcc, 2 * d.vDiodeOnVolts + d.vBESatVolts) : vcc;
+    const vIn50 = (t.drive.vLowMaxVolts + clamp) / 2;
+    const vCond = clamp - 0.15;
+    const cIn =
+      t.fanin * meanJunctionCapacitanceFarads(cjd, vjd, md, t.drive.vLowMaxVolts - vPOn, 0) +
+      nLs * meanJunctionCapacitanceFarads(cjd, vjd, md, 0, d.vDiodeCutInVolts) +
+      (t.inputWiringFarads ?? 0);
+    const rs = t.drive.orSourceOhms;
+    if (vCond > vIn50 && Number.isFinite(rs) && vcc > vCond) tNode = rs * cIn * Math.log((vcc - vIn50) / (vcc - vCond));
+  }
+  // The kick arrives as the stepped diode recovers, within about its transit time.
+  const tBase = Math.max(andInput && qKick > 0 ? ttd * Math.LN2 : 0, Math.max(0, qBase - qKick) / iB1);
+  // The collector must also discharge the load capacitance, with what the base drive allows.
+  const sinkExcess = Math.max(betaOn * iB1 - iCs / 2, 1e-30);
+  const tLoadFall = (load.capacitanceFarads * (vOH - v50)) / sinkExcess;
+  const tTurnOn = turnOnTimeSeconds(betaOn * tf, iB1, iCs, betaOn);
+  const tPHL = tNode + tBase + tLoadFall;
+
+  // --- Output rising --------------------------------------------------------------------
+  // Reverse base current through R_B while the transistor is still on.
+  const iB2 = vBE / values.rbOhms!;
+  // The level-shift diodes recover as the input node falls and pull some charge out of the base.
+  let qOff = 0;
+  if (nLs > 0 && def.variant === "basic") {
+    const cSeries = meanJunctionCapacitanceFarads(cjd, vjd, md, 0, d.vDiodeCutInVolts) / nLs;
+    qOff = ttd * op.i1Amps + cSeries * Math.max(0, vPOn - (andInput ? vPLow : d.vCESatVolts));
+  }
+  const tauS = storageTimeConstantSeconds(npn);
+  const iB1Eff = Math.max(iCs / betaOff, iB1 - (tauS > 0 ? qOff / tauS : 0));
+  const ts = storageTimeSeconds(tauS, iB1Eff, iB2, iCs, betaOff);
+  // Collector current falling to half (charge control, τ = β·τ_F).
+  const tauOff = betaOff * tf;
+  const tDecay = tauOff * Math.log((iCs + betaOff * iB2) / (0.5 * iCs + betaOff * iB2));
+  // Output rising: Miller-limited first, then R_C charging the load and the collector junction.
+  const cjcRise = meanJunctionCapacitanceFarads(cjc, vjc, mjc, vBE - vOL, vBE - v50);
+  const cRise = load.capacitanceFarads + cjcRise;
+  const tRise = millerLimitedRiseSeconds(vOL, v50, vcc, rc, cRise, iB2, cjcRise);
+  const tPLH = ts + tDecay + tRise;
+  return {
+    tPHLSeconds: tPHL,
+    tPLHSeconds: tPLH,
+    tStorageSeconds: ts,
+    tTurnOnSeconds: Number.isFinite(tTurnOn) ? tTurnOn : Infinity,
+    tRiseSeconds: tRise,
+    loadCapacitanceFarads: load.capacitanceFarads,
+  };
+}
