@@ -175,8 +175,9 @@ export interface CellDefinition {
   analyze(values: CellValues, env: CellEnv, load: OutputLoad, drive: InputDrive): CellOperatingPoint;
 
   /** Resistor assignments to evaluate for worst case: each is a factor per key (1 ± tolerance),
-   *  chosen so every figure's worst direction is covered. */
-  toleranceCases(tolerance: number): { label: string; factors: Record<string, number> }[];
+   *  chosen so every figure's worst direction is covered. `skipTiming` marks a case that can
+   *  never be the slowest (all resistors low: most current everywhere). */
+  toleranceCases(tolerance: number): { label: string; factors: Record<string, number>; skipTiming?: boolean }[];
 
   /** Largest low-state current one input draws from its driver (resistors at their low end). */
   inputLowAmpsWorst(values: CellValues, tolerance: number, env: CellEnv): number;

@@ -4,7 +4,7 @@ import type { CellDefinition, CellEnv, CellValues, ComponentStress, InputDrive, 
 import { shareFactor } from "../cells/output-stage.js";
 import { devicesAt } from "./devices.js";
 import type { ResolvedOptions } from "./options.js";
-import type { Situation } from "./situations.js";
+import { reduceSituations, type Situation, type SituationSet } from "./situations.js";
 import { cellTiming, typicalDrops, type TimingInputs } from "./timing.js";
 import type { CellAnalysis, CellTiming, ConstraintResult, OperatingFigures } from "./types.js";
 
@@ -131,7 +131,7 @@ function scaled(values: CellValues, factors: Record<string, number>, out: CellVa
   return out;
 }
 
-type ToleranceCase = { label: string; factors: Record<string, number>; scratch: CellValues };
+type ToleranceCase = { label: string; factors: Record<string, number>; skipTiming?: boolean; scratch: CellValues };
 const caseCache = new WeakMap<CellDefinition, Map<number, ToleranceCase[]>>();
 
 /** The cell's tolerance cases, built once per cell and tolerance (each with a scratch record). */
@@ -224,7 +224,7 @@ export function evaluateSituation(
       note(CI.saturation, op.satMargin, o.saturationMarginMin);
       note(CI["noise-margin-low"], op.noiseMarginLowVolts, o.noiseMarginMinVolts);
       note(CI["noise-margin-high"], op.noiseMarginHighVolts, o.noiseMarginMinVolts);
-      note(CI["collector-current"], op.iCAmps, o.collectorCurrentMinAmps);
+      if (o.collectorCurrentMinAmps > 0) note(CI["collector-current"], op.iCAmps, o.collectorCurrentMinAmps);
       if (o.turnOffRatioMin > 0) {
         const ratio = op.iCAmps > 0 ? (op.iTurnOffAmps * env.dev.betaMin) / op.iCAmps : Infinity;
         note(CI["turn-off-current"], ratio, o.turnOffRatioMin);
@@ -233,7 +233,7 @@ export function evaluateSituation(
       if (p > worstWatts) worstWatts = p;
       if (o.powerCeilingWatts !== undefined) note(CI["power-ceiling"], p, o.powerCeilingWatts);
       let timing: CellTiming | undefined;
-      if (needTiming) {
+      if (needTiming && !(tc.skipTiming && !detail)) {
         // Timing at the typical junction drops of the models (see typicalDrops).
         const tenv = timingEnv(env, o);
         const tload = loadFor(ctx, s, def, values, c, tenv, ctx.tol);
@@ -376,14 +376,23 @@ export function evaluateSituation(
   return { worstWatts, analysis, stresses };
 }
 
+const setCache = new WeakMap<readonly Situation[], SituationSet>();
+
 /** Evaluates a cell kind with `values` over its situations: the least margin per constraint and
- *  the count-weighted worst-case power. */
+ *  the count-weighted worst-case power. Dominated situations are skipped (see reduceSituations). */
 export function evaluateType(situations: readonly Situation[], values: CellValues, ctx: EvalContext): TypeEval {
+  let set = setCache.get(situations);
+  if (!set) {
+    set = reduceSituations(situations);
+    setCache.set(situations, set);
+  }
   const margins = new Float64Array(NC).fill(Infinity);
   let objective = 0;
-  for (const s of situations) {
-    const r = evaluateSituation(s, values, ctx, margins, false);
-    objective += r.worstWatts * s.cells.length;
+  const watts = new Map<Situation, number>();
+  for (const s of set.constraint) watts.set(s, evaluateSituation(s, values, ctx, margins, false).worstWatts);
+  for (const g of set.power) {
+    const w = watts.get(g.situation) ?? evaluateSituation(g.situation, values, ctx, margins, false).worstWatts;
+    objective += w * g.cells;
   }
   return { margins, objectiveWatts: objective };
 }

@@ -104,7 +104,7 @@ export function resolveOptions(o: SizingOptions): StageResult<ResolvedOptions> {
   };
   positive(o.betaMin, "minimum gain");
   positive(o.saturationMarginMin, "saturation margin");
-  positive(o.collectorCurrentMinAmps, "collector-current floor");
+  if (o.collectorCurrentMinAmps !== undefined && !(Number.isFinite(o.collectorCurrentMinAmps) && o.collectorCurrentMinAmps >= 0)) bad(`collector-current floor must not be negative`);
   positive(o.powerCeilingWatts, "power ceiling");
   positive(o.gateDelayMaxSeconds, "gate delay budget");
   positive(o.pathDelayMaxSeconds, "path delay budget");
@@ -153,10 +153,13 @@ export function resolveOptions(o: SizingOptions): StageResult<ResolvedOptions> {
   rec("saturationMarginMin", "Required saturation margin β·I_B/(I_C + loads)", saturationMarginMin, "", src(o.saturationMarginMin));
   const noiseMarginMinVolts = o.noiseMarginMinVolts ?? DEFAULTS.noiseMarginMinVolts;
   rec("noiseMarginMinVolts", "Required noise margin, low and high", noiseMarginMinVolts, "V", src(o.noiseMarginMinVolts));
-  const collectorCurrentMinAmps = o.collectorCurrentMinAmps ?? DEFAULTS.collectorCurrentMinAmps;
-  rec("collectorCurrentMinAmps", "Least collector current (speed floor)", collectorCurrentMinAmps, "A", src(o.collectorCurrentMinAmps));
-  const turnOffRatioMin = o.turnOffRatioMin ?? DEFAULTS.turnOffRatioMin;
-  rec("turnOffRatioMin", "Turn-off current R_B at least × I_C/β_min", turnOffRatioMin, "", src(o.turnOffRatioMin));
+  // The speed floors stand in for a delay budget: with a budget they apply only if given.
+  const budgeted = o.gateDelayMaxSeconds !== undefined || pathDelayMaxSeconds !== undefined;
+  const collectorCurrentMinAmps = o.collectorCurrentMinAmps ?? (budgeted ? 0 : DEFAULTS.collectorCurrentMinAmps);
+  if (collectorCurrentMinAmps > 0)
+    rec("collectorCurrentMinAmps", "Least collector current (speed floor)", collectorCurrentMinAmps, "A", src(o.collectorCurrentMinAmps));
+  const turnOffRatioMin = o.turnOffRatioMin ?? (budgeted ? 0 : DEFAULTS.turnOffRatioMin);
+  if (turnOffRatioMin > 0) rec("turnOffRatioMin", "Turn-off current R_B at least × I_C/β_min", turnOffRatioMin, "", src(o.turnOffRatioMin));
   if (o.powerCeilingWatts !== undefined) rec("powerCeilingWatts", "Power ceiling per gate", o.powerCeilingWatts, "W", "user");
   if (o.gateDelayMaxSeconds !== undefined) rec("gateDelayMaxSeconds", "Largest gate delay", o.gateDelayMaxSeconds, "s", "user");
   if (pathDelayMaxSeconds !== undefined) rec("pathDelayMaxSeconds", "Largest delay of the longest path", pathDelayMaxSeconds, "s", pathSource);

@@ -25,7 +25,10 @@ export interface SearchResult {
   evaluations: number;
 }
 
-const COARSE_STEP = 8;
+/** Coarse steps scale with the number of standard values (E24 over four decades: 8). */
+export function coarseStep(n: number): number {
+  return Math.max(8, Math.round(n / 12));
+}
 const OUTER_STEP = 4;
 
 function minMargin(m: Float64Array, only?: (i: number) => boolean): number {
@@ -49,6 +52,8 @@ export interface SearchSpec {
   grid: readonly number[];
   /** Parameters held fixed (e.g. the shared R_C). */
   fixed: CellValues;
+  /** A known candidate to start from (its power prunes the search at once when it fits). */
+  initial?: CellValues;
 }
 
 /** Searches one cell kind. Pure; deterministic. */
@@ -196,11 +201,15 @@ export function searchCell(spec: SearchSpec): SearchResult {
     // Coarse scan from the top (least power) down to the floor; stop once power exceeds the best.
     let found = -1;
     let foundR: Exclude<ReturnType<typeof freeFeasible>, undefined | "dearer"> | undefined;
+    let dearerAt = -1;
     let prevTried = n; // index of the previous (higher) point tried and found infeasible
-    for (let i = n - 1; ; i -= COARSE_STEP) {
+    for (let i = n - 1; ; i -= coarseStep(n)) {
       const at = Math.max(i, floor);
       const r = freeFeasible({ ...base, [bisectKey]: grid[at]! }, limit);
-      if (r === "dearer") return;
+      if (r === "dearer") {
+        dearerAt = at;
+        break;
+      }
       if (r) {
         found = at;
         foundR = r;
@@ -209,9 +218,10 @@ export function searchCell(spec: SearchSpec): SearchResult {
       prevTried = at;
       if (at === floor) break;
     }
-    if (found < 0 || !foundR) return;
-    // Refine upward between the feasible point and the infeasible one above it.
-    let a = found;
+    // Refine between the last infeasible point above and the point where the scan stopped: a
+    // feasible point found there, or one too dear (the values between are cheaper and may fit).
+    let a = found >= 0 ? found : dearerAt;
+    if (a < 0) return;
     let b = Math.min(prevTried, n) - 1;
     let bestR = foundR;
     while (a < b) {
@@ -222,9 +232,17 @@ export function searchCell(spec: SearchSpec): SearchResult {
         bestR = r;
       } else b = mid - 1;
     }
+    if (!bestR) return;
     const values = { ...base, [bisectKey]: grid[a]!, [freeKey]: grid[bestR.lo]! };
     if (!best || bestR.power < best.power) best = { values, power: bestR.power, e: bestR.e, lo: bestR.lo, hi: bestR.hi };
   };
+
+  if (spec.initial) {
+    const grid0 = grid as number[];
+    const fi = grid0.indexOf(spec.initial[freeKey]!);
+    const e = evalAt({ ...spec.initial, ...fixed });
+    if (fi >= 0 && minMargin(e.margins) >= -1e-12) best = { values: { ...spec.initial, ...fixed }, power: e.objectiveWatts, e, lo: fi, hi: fi };
+  }
 
   // Enumerate outer parameters from the top. The collector resistor is scanned value by value
   // (its power bound prunes); other outer parameters coarsely, then finely around the best.
@@ -242,13 +260,32 @@ export function searchCell(spec: SearchSpec): SearchResult {
     }
     const name = outerKeys[k]!;
     if (name === "rcOhms") {
+      // From the top (least power): every coarseStep-th value first; at the first that improves,
+      // the values just above it, then downward until the power bound cuts off.
       const cap = maxRcOhms(ctx);
-      for (let i = n - 1; i >= 0; i--) {
-        idx[k] = i;
-        if (grid[i]! > cap) continue;
-        // Lower bound on power for the rest of this branch: the cell's own collector current.
-        if (best && lowerBoundWatts(situations, grid[i]!, ctx) >= best.power) break;
+      const list: number[] = [];
+      for (let i = n - 1; i >= 0; i--) if (grid[i]! <= cap) list.push(i);
+      const done = new Set<number>();
+      const visit = (j: number): void => {
+        done.add(j);
+        idx[k] = list[j]!;
         recurse(k + 1);
+      };
+      let first = -1;
+      for (let j = 0; j < list.length; j += coarseStep(n)) {
+        const prev = best;
+        visit(j);
+        if (best !== prev) {
+          first = j;
+          break;
+        }
+      }
+      const order = first < 0 ? list.map((_, j) => j) : [...list.map((_, j) => j).filter((j) => j < first && j > first - coarseStep(n)), ...list.map((_, j) => j).filter((j) => j > first)];
+      for (const j of order) {
+        if (done.has(j)) continue;
+        // Lower bound on power for the rest of this branch: the cell's own collector current.
+        if (best && j > first && lowerBoundWatts(situations, grid[list[j]!]!, ctx) >= best.power) break;
+        visit(j);
       }
       return;
     }
@@ -280,6 +317,7 @@ export function searchCell(spec: SearchSpec): SearchResult {
 /** Largest collector resistor that can meet the speed floor (least collector current) at the
  *  lowest supply with the resistor at its high end: (V_CC,min − V_CE(sat))/(I_C,min·(1 + tol)). */
 export function maxRcOhms(ctx: EvalContext): number {
+  if (!(ctx.opts.collectorCurrentMinAmps > 0)) return Infinity;
   let x = Infinity;
   for (const c of ctx.corners) {
     const r = (c.env.vccVolts - c.env.dev.vCESatVolts) / (ctx.opts.collectorCurrentMinAmps * (1 + ctx.tol));

@@ -127,3 +127,42 @@ export function buildSituations(
   }
   return { situations, byCell, loading };
 }
+
+/** What a search must evaluate for one cell kind: the situations no other situation dominates
+ *  (for the constraints), and one situation per power class with the number of cells it stands
+ *  for (for the objective). */
+export interface SituationSet {
+  constraint: Situation[];
+  power: { situation: Situation; cells: number }[];
+}
+
+function dominates(a: Situation, b: Situation): boolean {
+  if (a.def !== b.def) return false;
+  if (a.orLoads > 0 !== b.orLoads > 0) return false;
+  if (a.orLoads < b.orLoads || a.loadPins < b.loadPins || a.orDriveLoads < b.orDriveLoads || a.fanin < b.fanin) return false;
+  if (b.inputsSeeOrClamp && !a.inputsSeeOrClamp) return false;
+  if (a.andLoads < b.andLoads) return false;
+  const count = (s: Situation, id: string): number => s.andLoadsByType.find(([t]) => t === id)?.[1] ?? 0;
+  for (const [id, n] of b.andLoadsByType) if (count(a, id) < n) return false;
+  return true;
+}
+
+/** Reduces situations of one kind to what decides feasibility and power. A situation with no
+ *  fewer loads of every kind, no fewer diode-OR loads on its inputs' drivers, no smaller fan-in
+ *  and no better input levels is at least as hard for every constraint; power depends only on
+ *  the cell kind and whether the output feeds diode-OR loads. */
+export function reduceSituations(situations: readonly Situation[]): SituationSet {
+  const constraint: Situation[] = [];
+  for (const s of situations) {
+    if (situations.some((t) => t !== s && dominates(t, s) && (!dominates(s, t) || situations.indexOf(t) < situations.indexOf(s)))) continue;
+    constraint.push(s);
+  }
+  const groups = new Map<string, { situation: Situation; cells: number }>();
+  for (const s of situations) {
+    const k = `${s.def.id}|${s.orLoads > 0 ? 1 : 0}`;
+    const g = groups.get(k);
+    if (g) g.cells += s.cells.length;
+    else groups.set(k, { situation: s, cells: s.cells.length });
+  }
+  return { constraint, power: [...groups.values()] };
+}

@@ -19,7 +19,7 @@ import {
 } from "./evaluate.js";
 import { resolveOptions, DEFAULTS, type ResolvedOptions } from "./options.js";
 import { chooseResistorRating, formatRating } from "./ratings.js";
-import { chooseFree, lowerBoundWatts, maxRcOhms, searchCell, type Closest, type SearchSpec } from "./search.js";
+import { chooseFree, coarseStep, lowerBoundWatts, maxRcOhms, searchCell, type Closest, type SearchSpec } from "./search.js";
 import { buildSituations, type Situation } from "./situations.js";
 import type {
   CellAnalysis,
@@ -166,35 +166,55 @@ function sizeUniform(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv
     const feasible: { rc: number; chosen: Map<string, CellValues>; intervals: Map<string, [number, number]>; power: number }[] = [];
     let bestPower = Infinity;
     const closestByType = new Map<string, Closest>();
-    const rcs = stageA.length > 0 ? [...grid].reverse() : [undefined];
     const rcCap = maxRcOhms(makeUniformCtx(u, types[0]!, new Map(), provisional, {}));
-    for (const rc of rcs) {
-      if (rc !== undefined && rc > rcCap) continue;
-      if (rc !== undefined) {
-        let lb = 0;
-        for (const d of stageA) lb += lowerBoundWatts(sitsOf.get(d.id)!, rc, makeUniformCtx(u, d, new Map(), provisional, {}));
-        if (lb >= bestPower) break;
-      }
+    const tryRc = (rc: number | undefined): boolean => {
       const chosen = new Map<string, CellValues>();
       const intervals = new Map<string, [number, number]>();
       let power = 0;
-      let failed = false;
       for (const d of stageA) {
         const ctx = makeUniformCtx(u, d, chosen, provisional, { sharedRcOhms: rc! });
         const r = searchCell({ def: d, situations: sitsOf.get(d.id)!, ctx, grid, fixed: { rcOhms: rc! } });
         if (!r.values) {
           const prev = closestByType.get(d.id);
           if (r.closest && (!prev || r.closest.worstMargin > prev.worstMargin)) closestByType.set(d.id, r.closest);
-          failed = true;
-          break;
+          return false;
         }
         chosen.set(d.id, r.values);
         intervals.set(d.id, r.freeInterval!);
         power += r.objectiveWatts!;
       }
-      if (failed) continue;
       feasible.push({ rc: rc ?? NaN, chosen, intervals, power });
       if (power < bestPower) bestPower = power;
+      return true;
+    };
+    const lbAt = (rc: number): number => {
+      let lb = 0;
+      for (const d of stageA) lb += lowerBoundWatts(sitsOf.get(d.id)!, rc, makeUniformCtx(u, d, new Map(), provisional, {}));
+      return lb;
+    };
+    if (stageA.length === 0) tryRc(undefined);
+    else {
+      // Shared R_C from the top (least power): every 8th value first; at the first that fits,
+      // the values just above it, then downward until the power bound cuts off.
+      const list = [...grid].reverse().filter((rc) => rc <= rcCap);
+      const tried = new Set<number>();
+      const at = (i: number): boolean => {
+        tried.add(i);
+        return tryRc(list[i]!);
+      };
+      let first = -1;
+      for (let i = 0; i < list.length; i += coarseStep(list.length)) {
+        if (at(i)) {
+          first = i;
+          break;
+        }
+      }
+      const rest = first < 0 ? list.map((_, i) => i) : [...Array.from({ length: first }, (_, k) => k).filter((i) => i > first - coarseStep(list.length)), ...list.map((_, i) => i).filter((i) => i > first)];
+      for (const i of rest) {
+        if (tried.has(i)) continue;
+        if (i > first && first >= 0 && lbAt(list[i]!) >= bestPower) break;
+        at(i);
+      }
     }
     if (stageA.length > 0 && feasible.length === 0) {
       // Report the kind that came closest to fitting last (the one that blocked).
@@ -306,7 +326,8 @@ function sizePerGate(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv
   const uSits = uniform.situations;
   const uValues = uniform.valuesBySituation;
   const lStar = (c: number): number => uniform.heaviestLoadAmps(c);
-  // Contract on diode-OR drive: the largest per-load source resistance a diode-OR input was sized for.
+  // Contract on diode-OR drive: the largest per-load source resistance any uniform diode-OR input
+  // met (the uniform NOR values were checked against it, and no uniform driver exceeds it).
   let rEqStar: number | undefined;
   for (let i = 0; i < uSits.length; i++) {
     const s = uSits[i]!;
@@ -314,7 +335,7 @@ function sizePerGate(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv
     const n = Math.max(1, s.orDriveLoads);
     const rc = uniform.sharedRcOhms ?? uValues[i]!.rcOhms!;
     const r = (rc * (1 + tol) * n) / shareFactor(corners[0]!.env, n);
-    rEqStar = rEqStar === undefined ? r : Math.min(rEqStar, r);
+    rEqStar = rEqStar === undefined ? r : Math.max(rEqStar, r);
   }
   const makeCtx = (): EvalContext => {
     const ctx: EvalContext = {
@@ -347,20 +368,22 @@ function sizePerGate(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv
   const valuesBySituation: CellValues[] = [];
   const memo = new Map<string, CellValues>();
   for (const s of situations) {
-    const key = [s.def.id, s.andLoads, s.orLoads, s.loadPins, s.inputsSeeOrClamp ? 1 : 0, s.orDriveLoads, s.fanin].join("|");
+    // Fan-in and load pins change only capacitances: they matter only under a delay budget.
+    const timed = u.gateDelayMaxSeconds !== undefined;
+    const key = [s.def.id, s.andLoads, s.orLoads, s.inputsSeeOrClamp ? 1 : 0, s.orDriveLoads, timed ? s.loadPins : "", timed ? s.fanin : ""].join("|");
     const hit = memo.get(key);
     if (hit) {
       valuesBySituation.push(hit);
       continue;
     }
     const ctx = makeCtx();
-    const spec: SearchSpec = { def: s.def, situations: [s], ctx, grid: u.grid, fixed: {} };
+    const ui = uSits.findIndex((x) => x.def.id === s.def.id);
+    const spec: SearchSpec = { def: s.def, situations: [s], ctx, grid: u.grid, fixed: {}, ...(ui >= 0 ? { initial: uValues[ui]! } : {}) };
     const r = searchCell(spec);
     let values: CellValues;
     if (r.values && r.freeInterval) values = chooseFree(spec, r.values, r.freeInterval).values;
     else {
       // Fall back to the uniform values of this kind (they meet the contracts).
-      const ui = uSits.findIndex((x) => x.def.id === s.def.id);
       values = uValues[ui]!;
     }
     memo.set(key, values);
@@ -725,6 +748,14 @@ function fmt(x: number): string {
   return Number(x.toPrecision(3)).toString();
 }
 
+/** A figure with its unit, scaled the way engineers write it (ns, mA, mW). */
+function fmtQuantity(x: number, unit: string): string {
+  const scaled: Record<string, [number, string]> = { s: [1e9, "ns"], A: [1e3, "mA"], W: [1e3, "mW"], "Ω": [1e-3, "kΩ"] };
+  const sc = scaled[unit];
+  if (sc) return `${fmt(x * sc[0])} ${sc[1]}`;
+  return unit ? `${fmt(x)} ${unit}` : fmt(x);
+}
+
 function formatPercent(f: number): string {
   return `${Number((f * 100).toPrecision(3))} %`;
 }
@@ -763,21 +794,32 @@ function attemptAll(netlist: CellNetlist, u: UniformEnv): Attempt {
   };
   // Largest threshold that fits (fewest cells moved); levels.length − 1 is the all-basic case,
   // which failed. Feasibility only grows as the threshold falls, so bisect, trying the largest
-  // threshold first (usually enough).
+  // threshold first (usually enough). The bisection runs on every other standard value; the
+  // threshold found is then sized on the full series.
+  const coarse: UniformEnv = { ...u, grid: u.grid.filter((_, k) => k % 2 === 0) };
   let found: { t: number; out: Outcome } | undefined;
   let lo = -1;
   let hi = levels.length - 2;
-  const firstTry = sizeUniform(netlist, defsAt(hi), u);
+  const full = (t: number): Outcome => sizeUniform(netlist, defsAt(t), u);
+  const firstTry = full(hi);
   if (firstTry.ok) found = { t: hi, out: firstTry };
   else {
     hi--;
+    let coarseT: number | undefined;
     while (lo <= hi) {
       const mid = (lo + hi + 1) >> 1;
-      const out = sizeUniform(netlist, defsAt(mid), u);
+      const out = sizeUniform(netlist, defsAt(mid), coarse);
       if (out.ok) {
-        found = { t: mid, out };
+        coarseT = mid;
         lo = mid + 1;
       } else hi = mid - 1;
+    }
+    if (coarseT !== undefined) {
+      // Back on the full series; if the coarse answer does not hold, move more cells over.
+      for (let t = coarseT; t >= -1 && !found; t--) {
+        const out = full(t);
+        if (out.ok) found = { t, out };
+      }
     }
   }
   if (!found) return { outcome, defs: basic, triedVariant: true };
@@ -800,19 +842,25 @@ function explainFailure(netlist: CellNetlist, u: UniformEnv, first: Attempt): Di
     if (c.id === "power-ceiling") return o.powerCeilingWatts !== undefined;
     if (c.id === "delay-fall" || c.id === "delay-rise") return u.gateDelayMaxSeconds !== undefined;
     if (c.id === "turn-off-current") return o.turnOffRatioMin > 0;
+    if (c.id === "collector-current") return o.collectorCurrentMinAmps > 0;
     return c.id !== "input-current" && c.id !== "or-drive";
   });
+  // Constraints the user set come first: they are the ones the user can most readily relax.
+  const userSet = (id: string): boolean => id === "power-ceiling" || id === "delay-fall" || id === "delay-rise";
+  active.sort((a, b) => Number(userSet(b.c.id)) - Number(userSet(a.c.id)) || a.i - b.i);
+  // Which constraints block is found on every other standard value (much faster); the best
+  // value reached is then bisected on the same coarser series (so it is "about").
+  const coarse: UniformEnv = { ...u, grid: u.grid.filter((_, k) => k % 2 === 0) };
   const blockers: { id: string; i: number; reached: number }[] = [];
   for (const { c, i } of active) {
-    const relaxed = attemptAll(netlist, { ...u, disabled: new Set([...(u.disabled ?? []), i]) });
+    const relaxed = attemptAll(netlist, { ...coarse, disabled: new Set([...(u.disabled ?? []), i]) });
     if (!relaxed.outcome.ok) continue;
     blockers.push({ id: c.id, i, reached: worstValue(relaxed.outcome.sized, i) });
   }
   const loading = buildSituations(netlist, first.defs, { group: true, ...(o.fanoutOverride !== undefined ? { fanoutOverride: o.fanoutOverride } : {}) });
   const maxFan = Math.max(0, ...loading.situations.map((s) => s.andLoads + s.orLoads));
-  const where = ` (largest fan-out ${maxFan})`;
+  const where = `, largest fan-out ${maxFan}`;
   if (blockers.length > 0) {
-    // The first blocker in catalogue order (saturation before noise margins before speed ...).
     const b0 = blockers[0]!;
     const spec = CONSTRAINTS[b0.i]!;
     const limit = limitOf(u, spec.id);
@@ -822,18 +870,19 @@ function explainFailure(netlist: CellNetlist, u: UniformEnv, first: Attempt): Di
     if (limit !== undefined && Number.isFinite(best)) {
       let good = best;
       let bad = limit;
+      // Times, powers and currents span decades: bisect those on a log scale.
+      const logScale = spec.unit !== "V" && spec.unit !== "" && good > 0 && bad > 0;
       for (let k = 0; k < 6; k++) {
-        const mid = (good + bad) / 2;
-        const tightened = withLimit(u, spec.id, mid);
+        const mid = logScale ? Math.sqrt(good * bad) : (good + bad) / 2;
+        const tightened = withLimit(coarse, spec.id, mid);
         if (attemptAll(netlist, tightened).outcome.ok) good = mid;
         else bad = mid;
       }
       best = good;
     }
     const alt = blockers.slice(1).map((b) => labelOf(b.id));
-    const unit = spec.unit ? ` ${spec.unit}` : "";
     let msg = `${f.def.title}${where}: no ${o.series} values meet every constraint at every corner; ${labelOf(b0.id)} fails first`;
-    if (limit !== undefined) msg += `: the best design reaches ${fmt(best)}${unit} against ${spec.sense === "min" ? "at least" : "at most"} ${fmt(limit)}${unit} required`;
+    if (limit !== undefined) msg += `: the best design reaches about ${fmtQuantity(best, spec.unit)} against ${spec.sense === "min" ? "at least" : "at most"} ${fmtQuantity(limit, spec.unit)} required`;
     if (alt.length) msg += ` (relaxing ${alt.length === 1 ? "" : "any one of "}${alt.join(", ")} instead would also let it fit)`;
     let hint = `what would relax it: ${RELAX[b0.id] ?? "a looser requirement"}`;
     if (first.triedVariant && b0.id === "saturation") hint += "; the high-fan-out variant was tried and does not fit either";
@@ -1001,7 +1050,7 @@ export function sizeDesign(netlist: CellNetlist, options: SizingOptions): StageR
       return "slow";
     };
     if (tryBudget(hi) !== "ok") {
-      for (let k = 0; k < 7; k++) {
+      for (let k = 0; k < 5; k++) {
         const mid = Math.sqrt(lo * hi);
         const r = tryBudget(mid);
         if (r === "ok") lo = mid;

@@ -116,9 +116,48 @@ export function millerLimitedRiseSeconds(
   return rc(vFrom, vTo);
 }
 
-/** Depletion charge moved when a junction's voltage goes from v1 to v2 (forward positive). */
-function depletionCharge(cj0: number, vj: number, m: number, v1: number, v2: number): number {
-  return meanJunctionCapacitanceFarads(cj0, vj, m, v1, v2) * Math.abs(v2 - v1);
+/** A junction's depletion capacitance with a memo: switching analyses ask for the same voltage
+ *  ranges over and over (they depend on the corner, not on the resistor values). */
+class Junction {
+  private readonly memo = new Map<number, Map<number, number>>();
+  constructor(
+    readonly cj0: number,
+    readonly vj: number,
+    readonly m: number,
+  ) {}
+  mean(v1: number, v2: number): number {
+    let inner = this.memo.get(v1);
+    if (!inner) {
+      if (this.memo.size > 4096) this.memo.clear();
+      inner = new Map();
+      this.memo.set(v1, inner);
+    }
+    let c = inner.get(v2);
+    if (c === undefined) {
+      c = meanJunctionCapacitanceFarads(this.cj0, this.vj, this.m, v1, v2);
+      inner.set(v2, c);
+    }
+    return c;
+  }
+  charge(v1: number, v2: number): number {
+    return this.mean(v1, v2) * Math.abs(v2 - v1);
+  }
+}
+
+const junctions = new WeakMap<Record<string, number>, Map<string, Junction>>();
+
+function junctionOf(params: Record<string, number>, cj: string, vj: string, m: string, defVj: number, defM: number): Junction {
+  let byName = junctions.get(params);
+  if (!byName) {
+    byName = new Map();
+    junctions.set(params, byName);
+  }
+  let j = byName.get(cj);
+  if (!j) {
+    j = new Junction(params[cj] ?? (cj === "CJO" ? params.CJ0 ?? 0 : 0), params[vj] ?? defVj, params[m] ?? defM);
+    byName.set(cj, j);
+  }
+  return j;
 }
 
 const lsCache = new WeakMap<CellDefinition, number>();
@@ -141,15 +180,9 @@ export function cellTiming(t: TimingInputs): CellTiming {
   const d = env.dev;
   const vcc = env.vccVolts;
   const tf = npn.TF ?? 0;
-  const cje = npn.CJE ?? 0;
-  const cjc = npn.CJC ?? 0;
-  const vje = npn.VJE ?? 0.75;
-  const mje = npn.MJE ?? 0.33;
-  const vjc = npn.VJC ?? 0.75;
-  const mjc = npn.MJC ?? 0.33;
-  const cjd = diode.CJO ?? diode.CJ0 ?? 0;
-  const vjd = diode.VJ ?? 1;
-  const md = diode.M ?? 0.5;
+  const je = junctionOf(npn, "CJE", "VJE", "MJE", 0.75, 0.33);
+  const jc = junctionOf(npn, "CJC", "VJC", "MJC", 0.75, 0.33);
+  const jd = junctionOf(diode, "CJO", "VJ", "M", 1, 0.5);
   const ttd = diode.TT ?? 0;
   const rc = values.rcOhms!;
   const vOL = op.vOLVolts;
@@ -172,29 +205,29 @@ export function cellTiming(t: TimingInputs): CellTiming {
   let qNode = 0;
   let qKick = 0;
   let tNode = 0;
-  let qBase = depletionCharge(cje, vje, mje, 0, d.vBECutInVolts) +
-    meanJunctionCapacitanceFarads(cje, vje, mje, 0, d.vBECutInVolts) * (vBE - d.vBECutInVolts) +
-    depletionCharge(cjc, vjc, mjc, vBE - vOH, vBE - v50) +
+  let qBase = je.charge(0, d.vBECutInVolts) +
+    je.mean(0, d.vBECutInVolts) * (vBE - d.vBECutInVolts) +
+    jc.charge(vBE - vOH, vBE - v50) +
     tf * iCs;
   if (andInput) {
     // Node capacitance: the other input diodes, and the level-shift diodes (or the follower).
-    const cOthers = (t.fanin - 1) * meanJunctionCapacitanceFarads(cjd, vjd, md, -(vOH - vPLow), -(vOH - vPOn));
+    const cOthers = (t.fanin - 1) * jd.mean(-(vOH - vPLow), -(vOH - vPOn));
     // The stepped input diode hands its stored and depletion charge to the node as it recovers.
-    qKick = ttd * op.inputLowAmps + depletionCharge(cjd, vjd, md, d.vDiodeOnVolts, vPOn - vOH);
+    qKick = ttd * op.inputLowAmps + jd.charge(d.vDiodeOnVolts, vPOn - vOH);
     if (def.timingHints?.follower) {
       // The follower's base (the input node) is raised by the pull-up alone, charging the other
       // input diodes and the follower's junctions; once it conducts, its emitter current drives
       // the output transistor.
       const cFollower =
-        meanJunctionCapacitanceFarads(cje, vje, mje, 0, d.vBECutInVolts) +
-        meanJunctionCapacitanceFarads(cjc, vjc, mjc, vPLow - vcc, vPOn - vcc);
+        je.mean(0, d.vBECutInVolts) +
+        jc.mean(vPLow - vcc, vPOn - vcc);
       qNode = (cOthers + cFollower) * Math.max(0, vPOn - vPLow);
       const rPull = def.timingHints.nodePullUpKeys.reduce((acc, k) => acc + (values[k] ?? 0), 0);
       const iNode = Math.max(vcc - (vPLow + vPOn) / 2, 1e-3) / rPull;
       tNode = Math.max(0, qNode - qKick) / iNode;
       qKick = Math.max(0, qKick - qNode);
     } else {
-      const cLs = nLs > 0 ? meanJunctionCapacitanceFarads(cjd, vjd, md, 0, d.vDiodeCutInVolts) / nLs : 0;
+      const cLs = nLs > 0 ? jd.mean(0, d.vDiodeCutInVolts) / nLs : 0;
       qNode = (cOthers + cLs) * Math.max(0, vPOn - vPLow);
       qBase += qNode;
     }
@@ -205,8 +238,8 @@ export function cellTiming(t: TimingInputs): CellTiming {
     const vIn50 = (t.drive.vLowMaxVolts + clamp) / 2;
     const vCond = clamp - 0.15;
     const cIn =
-      t.fanin * meanJunctionCapacitanceFarads(cjd, vjd, md, t.drive.vLowMaxVolts - vPOn, 0) +
-      nLs * meanJunctionCapacitanceFarads(cjd, vjd, md, 0, d.vDiodeCutInVolts) +
+      t.fanin * jd.mean(t.drive.vLowMaxVolts - vPOn, 0) +
+      nLs * jd.mean(0, d.vDiodeCutInVolts) +
       (t.inputWiringFarads ?? 0);
     const rs = t.drive.orSourceOhms;
     if (vCond > vIn50 && Number.isFinite(rs) && vcc > vCond) tNode = rs * cIn * Math.log((vcc - vIn50) / (vcc - vCond));
@@ -225,7 +258,7 @@ export function cellTiming(t: TimingInputs): CellTiming {
   // The level-shift diodes recover as the input node falls and pull some charge out of the base.
   let qOff = 0;
   if (nLs > 0 && def.variant === "basic") {
-    const cSeries = meanJunctionCapacitanceFarads(cjd, vjd, md, 0, d.vDiodeCutInVolts) / nLs;
+    const cSeries = jd.mean(0, d.vDiodeCutInVolts) / nLs;
     qOff = ttd * op.i1Amps + cSeries * Math.max(0, vPOn - (andInput ? vPLow : d.vCESatVolts));
   }
   const tauS = storageTimeConstantSeconds(npn);
@@ -235,7 +268,7 @@ export function cellTiming(t: TimingInputs): CellTiming {
   const tauOff = betaOff * tf;
   const tDecay = tauOff * Math.log((iCs + betaOff * iB2) / (0.5 * iCs + betaOff * iB2));
   // Output rising: Miller-limited first, then R_C charging the load and the collector junction.
-  const cjcRise = meanJunctionCapacitanceFarads(cjc, vjc, mjc, vBE - vOL, vBE - v50);
+  const cjcRise = jc.mean(vBE - vOL, vBE - v50);
   const cRise = load.capacitanceFarads + cjcRise;
   const tRise = millerLimitedRiseSeconds(vOL, v50, vcc, rc, cRise, iB2, cjcRise);
   const tPLH = ts + tDecay + tRise;

@@ -43,9 +43,11 @@ export interface SizingOptions {
   saturationMarginMin?: number;
   /** Required low- and high-state noise margins at the worst corner (default 0.4 V). */
   noiseMarginMinVolts?: number;
-  /** Speed floor when no delay budget is given: least collector current (default 1 mA). */
+  /** Speed floor when no delay budget is given: least collector current (default 1 mA; with a
+   *  delay budget, none unless given; 0 turns it off). */
   collectorCurrentMinAmps?: number;
-  /** Turn-off drive: R_B's current at least this many times I_C/β_min (default 1). */
+  /** Speed floor when no delay budget is given: R_B's turn-off current at least this many times
+   *  I_C/β_min (default 1; with a delay budget, none unless given; 0 turns it off). */
   turnOffRatioMin?: number;
   /** Optional ceiling on each gate's worst-case static power. */
   powerCeilingWatts?: number;

@@ -171,7 +171,7 @@ export const nandCell: CellDefinition = {
       // Least base current, most collector current: the saturation worst case.
       { label: "R_P high, R_B low, R_C low", factors: { rpOhms: 1 + t, rbOhms: 1 - t, rcOhms: 1 - t } },
       // Most current everywhere: power, stress.
-      { label: "all resistors low", factors: { rpOhms: 1 - t, rbOhms: 1 - t, rcOhms: 1 - t } },
+      { label: "all resistors low", factors: { rpOhms: 1 - t, rbOhms: 1 - t, rcOhms: 1 - t }, skipTiming: true },
       // Least turn-off current against the most collector current.
       { label: "R_P low, R_B high, R_C low", factors: { rpOhms: 1 - t, rbOhms: 1 + t, rcOhms: 1 - t } },
       // Slowest pull-up, most stored charge.
