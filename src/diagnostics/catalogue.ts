@@ -23,6 +23,18 @@ export const CATALOGUE = {
   GW1007: { severity: "error", title: "bad number or constant" },
   GW1008: { severity: "error", title: "file is not text" },
   GW1009: { severity: "note", title: "too many errors; stopped reading" },
+  // GW1010-GW1019: minterm functions and truth tables of equation files.
+  GW1010: { severity: "error", title: "bad minterm number" },
+  GW1011: { severity: "error", title: "minterm listed twice" },
+  GW1012: { severity: "error", title: "minterm both given and don't-care" },
+  GW1013: { severity: "error", title: "bad minterm list" },
+  GW1014: { severity: "error", title: "truth-table row has the wrong number of values" },
+  GW1015: { severity: "error", title: "bad truth-table value" },
+  GW1016: { severity: "error", title: "truth-table rows disagree" },
+  GW1017: { severity: "error", title: "function or table too large" },
+  // GW1020-GW1029: state elements and state declarations of equation files.
+  GW1020: { severity: "error", title: "unknown function" },
+  GW1021: { severity: "error", title: "wrong number of arguments" },
 
   GW2001: { severity: "error", title: "undefined name" },
   GW2002: { severity: "error", title: "signal has more than one driver" },
@@ -39,17 +51,35 @@ export const CATALOGUE = {
   GW2013: { severity: "error", title: "no inputs or outputs" },
   GW2014: { severity: "error", title: "wire never driven" },
   GW2015: { severity: "error", title: "bit-vector range or index out of range" },
+  GW2016: { severity: "error", title: "function variable is not a declared input" },
+  GW2017: { severity: "error", title: "variable listed twice" },
+  // GW2030-GW2039 (below): state elements and initial values (src/sequential).
   // GW2020-GW2029: structure of structural Verilog (src/parse/verilog*.ts).
   GW2020: { severity: "error", title: "port list and port declarations disagree" },
   GW2021: { severity: "error", title: "bit widths do not match" },
   GW2022: { severity: "error", title: "design too large after flattening" },
 
+  GW2030: { severity: "error", title: "initial value for an input" },
+  GW2031: { severity: "error", title: "initial value given twice" },
+  GW2032: { severity: "error", title: "name taken by a state element's internal signal" },
+  GW2033: { severity: "warning", title: "initial value for a signal that stores no state" },
+
   GW3001: { severity: "note", title: "stored state found" },
   GW3002: { severity: "warning", title: "equivalence check was partial" },
   GW3003: { severity: "warning", title: "output is constant" },
   GW3004: { severity: "error", title: "combinational loop cannot hold state" },
+  GW3005: { severity: "note", title: "don't-cares not used" },
+  GW3006: { severity: "note", title: "optimization used a heuristic or reached a limit" },
+  // GW3010-GW3019: feedback, hazards and clocking (src/logic/feedback.ts, src/sequential).
+  GW3010: { severity: "warning", title: "loop has no stable point for some inputs" },
+  GW3011: { severity: "warning", title: "static hazard in logic that feeds a loop" },
+  GW3012: { severity: "note", title: "clocking of the state elements" },
+  GW3013: { severity: "warning", title: "initial values contradict each other" },
 
   GW4001: { severity: "error", title: "fan-in limit too small" },
+  GW4002: { severity: "error", title: "fan-out limit too small" },
+  GW4003: { severity: "note", title: "fan-out limited by buffering or duplicating cells" },
+  GW4004: { severity: "note", title: "wired-AND outputs used" },
 
   GW5001: { severity: "error", title: "no standard resistor values meet the constraints" },
   GW5002: { severity: "warning", title: "part rating exceeded" },
@@ -68,6 +98,8 @@ export const CATALOGUE = {
   GW7001: { severity: "error", title: "simulation failed" },
   GW7002: { severity: "error", title: "simulated output disagrees with the logic" },
   GW7003: { severity: "error", title: "simulator not available" },
+  GW7004: { severity: "error", title: "simulated noise margin below the one the design was sized for" },
+  GW7005: { severity: "note", title: "simulation covered part of the input combinations" },
 
   GW8001: { severity: "error", title: "cannot write output" },
   GW8002: { severity: "error", title: "refusing to overwrite a file gatewright did not write" },

@@ -38,7 +38,7 @@ export function bomRows(design: SizedDesign): BomRow[] {
   const parts: Part[] = design.components.map((c) => ({
     designator: c.designator,
     kind: c.kind,
-    value: c.kind === "R" ? `${c.valueText} Ω` : c.kind === "C" ? `${c.valueText}F` : c.valueText,
+    value: c.kind === "R" ? eng(c.value, "Ω") : c.kind === "C" ? eng(c.value, "F") : c.partNumber ?? c.valueText,
     tolerance: c.tolerance !== undefined ? `±${Math.round(c.tolerance * 1000) / 10} %` : "",
     rating: c.kind === "R" || c.kind === "C" ? ratingText(c.powerRatingWatts) : "",
     description: c.description,
@@ -49,7 +49,7 @@ export function bomRows(design: SizedDesign): BomRow[] {
     parts.push({
       designator: t.designator,
       kind: "R",
-      value: `${eng(t.ohms, "").trim()} Ω`.replace(" k Ω", "k Ω"),
+      value: eng(t.ohms, "Ω"),
       tolerance: "±5 %",
       rating: "1/8 W",
       description: `tie resistor: constant output held ${t.value ? "high" : "low"}`,

@@ -3,6 +3,8 @@ import type { LogicGraph } from "../logic/graph.js";
 import type { EquivalenceResult } from "../logic/equivalence.js";
 import type { SizedDesign } from "../electrical/types.js";
 import type { Stimulus } from "./stimulus.js";
+import type { StateAnalysis } from "../sequential/state.js";
+import type { SequentialTiming } from "../sequential/timing.js";
 
 export interface EmitContext {
   tool: { name: string; version: string };
@@ -19,6 +21,10 @@ export interface EmitContext {
   stepSeconds: number;
   /** Warnings and notes worth repeating in the report. */
   notes: string[];
+  /** Loops, state elements, initial values and clock, for designs with state. */
+  state?: StateAnalysis;
+  /** State elements' timing and the clock limit. */
+  timing?: SequentialTiming;
 }
 
 export function generatedBy(ctx: EmitContext): string {

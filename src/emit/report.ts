@@ -5,6 +5,7 @@ import { bomRows, bomTotals } from "./bom.js";
 import { eng, num, parameterText } from "./format.js";
 import { render } from "./render.js";
 import { generatedBy, type EmitContext } from "./context.js";
+import { stateJson, stateSummaryText, stateView } from "../sequential/report-view.js";
 
 /** The cautions every report and the README carry. */
 export function cautions(design: SizedDesign): string[] {
@@ -74,7 +75,7 @@ export function reportView(ctx: EmitContext, files: { name: string; what: string
     cautions: cautions(d),
     inputs: nl.inputs.map((i) => nl.nets[i]!.name).join(", "),
     outputs: nl.outputs.map((o) => o.name).join(", "),
-    stateText: ctx.stateNames.length ? `${ctx.stateNames.join(", ")} (feedback kept as written)` : "none (combinational)",
+    stateText: ctx.state?.loops.length ? stateSummaryText(ctx.state) : ctx.stateNames.length ? `${ctx.stateNames.join(", ")} (feedback kept as written)` : "none (combinational)",
     cellsText: `${nl.cells.length}: ${cellCounts.join(", ")}`,
     partsText: `${totals.parts} (${totals.byKindText}); ${totals.lines} distinct part values`,
     powerText: eng(d.totals.staticPowerWatts, "W"),
@@ -125,10 +126,13 @@ export function reportView(ctx: EmitContext, files: { name: string; what: string
       method: c.exhaustive ? "exhaustive" : "random (partial)",
     })),
     testbenchFile: files.find((f) => f.name.endsWith(".tb.cir"))?.name ?? "",
-    stimulusText: ctx.stimulus.exhaustive
+    stimulusText: ctx.stimulus.clock
+      ? `${ctx.stimulus.clock.cycles} cycles of a clock on ${ctx.stimulus.clock.input} (${ctx.stimulus.vectors.length} steps, four a cycle; ${ctx.stimulus.clock.complete ? "every combination of the other inputs in every state reached" : ctx.stimulus.seed !== undefined ? `seeded random data, seed ${ctx.stimulus.seed}` : "the cycle budget ran out before every state and input pair was tried"})`
+      : ctx.stimulus.exhaustive
       ? `every input combination (${ctx.stimulus.vectors.length} steps)`
       : `${ctx.stimulus.vectors.length} seeded random vectors (seed ${ctx.stimulus.seed})`,
     stepText: eng(ctx.stepSeconds, "s"),
+    state: stateView(ctx.state, ctx.timing, ctx.stimulus, ctx.stepSeconds),
     notes: [...d.notes, ...ctx.notes],
     files,
   };
@@ -192,6 +196,7 @@ export function designJson(ctx: EmitContext, files: { name: string; what: string
     })),
     totals: d.totals,
     criticalPath: d.criticalPath ?? null,
+    state: stateJson(ctx.state, ctx.timing),
     equivalence: ctx.equivalence,
     testbench: {
       stepSeconds: ctx.stepSeconds,

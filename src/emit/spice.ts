@@ -132,7 +132,12 @@ export interface TestbenchLevels {
  * strictest thresholds of any cell in the design, as if it fed the next board's gates.
  */
 export function outputLevels(design: SizedDesign, output: number): TestbenchLevels {
-  const net = design.netlist.nets[design.netlist.outputs[output]!.net]!;
+  return netLevels(design, design.netlist.outputs[output]!.net);
+}
+
+/** Thresholds for reading any net of the design (see outputLevels). */
+export function netLevels(design: SizedDesign, netIndex: number): TestbenchLevels {
+  const net = design.netlist.nets[netIndex]!;
   const supply = design.parameters.find((p) => p.name === "supplyVolts")!.value;
   const types = net.loads.length
     ? net.loads.map((l) => design.cellTypes[design.instances[l.cell]!.cellType]!)
@@ -142,9 +147,9 @@ export function outputLevels(design: SizedDesign, output: number): TestbenchLeve
   const vil = Math.min(...types.map((t) => t.analysis.vILVolts));
   // A diode-AND input reads high above its V_IH. A diode-OR input clamps the net at its own
   // input level when the net is high, so for it "high" is any level that turns it on: above
-  // its worst-case V_IL.
+  // its worst-case V_IL (by a small band, so a level on the threshold is not read as 1).
   const vihAnd = Math.max(...andTypes.map((t) => t.analysis.vIHVolts));
-  const vihOr = Math.max(...orTypes.map((t) => t.analysis.vILVolts));
+  const vihOr = Math.max(...orTypes.map((t) => t.analysis.vILVolts)) + OR_READ_BAND_VOLTS;
   const vih = andTypes.length ? (orTypes.length ? Math.max(vihAnd, vihOr) : vihAnd) : vihOr;
   return {
     vilVolts: Number.isFinite(vil) ? vil : supply * 0.2,
@@ -153,6 +158,13 @@ export function outputLevels(design: SizedDesign, output: number): TestbenchLeve
 }
 
 export const EDGE_FRACTION = 0.002;
+/** A net clamped high by diode-OR loads must sit at least this far above their V_IL to read 1. */
+export const OR_READ_BAND_VOLTS = 0.1;
+
+/** `.meas` name of a sampled state net. */
+export function stateMeasureName(step: number, node: string): string {
+  return `s${step}_st_${node}`;
+}
 /** Base resistor of the testbench's input driver transistors (drive well into saturation). */
 export const DRIVER_BASE_OHMS = 2200;
 export const SAMPLE_FRACTION = 0.05;
@@ -160,6 +172,50 @@ export const SAMPLE_FRACTION = 0.05;
 /** Sample time of step i: a little before the step ends. */
 export function sampleTime(i: number, stepSeconds: number): number {
   return (i + 1 - SAMPLE_FRACTION) * stepSeconds;
+}
+
+/** A state net the testbench samples besides the outputs. */
+export interface SampledStateNet {
+  /** Source name of the signal. */
+  name: string;
+  net: number;
+  /** SPICE node as the testbench sees it: `xdut.<node>` inside the design, the port's node for
+   *  a port. */
+  node: string;
+  /** Position in Stimulus.stateSignals. */
+  index: number;
+}
+
+function dutNode(design: SizedDesign, names: SpiceNames, net: number): string {
+  const isPort = design.netlist.inputs.includes(net) || design.netlist.outputs.some((o) => o.net === net);
+  return isPort ? names.net[net]! : `xdut.${names.net[net]!}`;
+}
+
+export function sampledStateNets(design: SizedDesign, names: SpiceNames, stimulus: { stateSignals?: string[] }): SampledStateNet[] {
+  const byName = new Map(design.netlist.nets.map((n) => [n.name, n.index]));
+  const out: SampledStateNet[] = [];
+  (stimulus.stateSignals ?? []).forEach((name, index) => {
+    const net = byName.get(name);
+    if (net === undefined || design.netlist.nets[net]!.outputPort !== undefined) return;
+    out.push({ name, net, node: dutNode(design, names, net), index });
+  });
+  return out;
+}
+
+/** `.ic` settings: every state net whose starting value the logic decides, at the typical
+ *  low or high level of the cell driving it. */
+export function initialConditions(design: SizedDesign, names: SpiceNames, initial: Record<string, 0 | 1 | "X"> | undefined): { node: string; name: string; value: 0 | 1; volts: number }[] {
+  if (!initial) return [];
+  const nl = design.netlist;
+  const out: { node: string; name: string; value: 0 | 1; volts: number }[] = [];
+  for (const net of nl.stateNets) {
+    const x = nl.nets[net]!;
+    const v = initial[x.name];
+    if (v === undefined || v === "X" || x.driver.kind !== "cell") continue;
+    const a = design.instances[x.driver.cell]!.analysis.nominal;
+    out.push({ node: dutNode(design, names, net), name: x.name, value: v, volts: v ? a.vOHVolts : a.vOLVolts });
+  }
+  return out;
 }
 
 export function renderTestbench(ctx: EmitContext, names: SpiceNames, files: { netlist: string; testbench: string }): string {
@@ -202,29 +258,53 @@ export function renderTestbench(ctx: EmitContext, names: SpiceNames, files: { ne
     lines.push(line);
     return { lines };
   });
+  const stateNets = sampledStateNets(d, names, st);
+  const tri = (x: 0 | 1 | "X") => (x === "X" ? "x" : String(x));
+  const edgeSteps = new Set(st.edgeSteps ?? []);
   const steps = st.vectors.map((v, i) => ({
     index: i,
     timeText: eng(sampleTime(i, T), "s", 4),
     inputs: v.join(""),
-    expected: st.expected[i]!.map((x) => (x === "X" ? "x" : String(x))).join(""),
-    measures: names.outputs.map((o) => `s${i}_${o} FIND v(${o}) AT=${spiceNumber(sampleTime(i, T), 8)}`),
+    expected: st.expected[i]!.map(tri).join(""),
+    stateExpected: stateNets.length ? stateNets.map((s) => tri(st.stateExpected![i]![s.index]!)).join("") : "",
+    phase: st.clock ? (i === 0 ? "start, clock low: the initial state released" : ["data change, clock low: the state just before the next rising edge", "clock rises", "clock high", "clock falls"][(i - 1) % 4]) : "",
+    beforeEdge: edgeSteps.has(i),
+    measures: [
+      ...names.outputs.map((o) => `s${i}_${o} FIND v(${o}) AT=${spiceNumber(sampleTime(i, T), 8)}`),
+      ...stateNets.map((s) => `${stateMeasureName(i, names.net[s.net]!)} FIND v(${s.node}) AT=${spiceNumber(sampleTime(i, T), 8)}`),
+    ],
   }));
+  const ics = initialConditions(d, names, st.initial);
+  const clock = st.clock;
   const stop = st.vectors.length * T;
   return render("testbench.cir", {
     designName: nl.name,
     generatedBy: generatedBy(ctx),
     testbenchFile: files.testbench,
     netlistFile: files.netlist,
-    stimulusText: st.exhaustive
-      ? `every combination of its ${names.inputs.length} input${names.inputs.length === 1 ? "" : "s"} in Gray-code order${ctx.stateNames.length ? ", forward and back" : ""} (${st.vectors.length} steps)`
-      : `${st.vectors.length} random vectors (seed ${st.seed})`,
+    stimulusText: clock
+      ? `${clock.cycles} clock cycles on ${clock.input} (${st.vectors.length} steps, four a cycle), ${clock.complete ? `every combination of the other inputs in every state reached (${clock.pairsCovered} state and input pairs)` : st.seed !== undefined ? `a seeded random sequence of the other inputs (seed ${st.seed})` : `${clock.pairsCovered} of the ${clock.pairsFound} state and input pairs found (cycle budget reached)`}`
+      : st.exhaustive
+        ? `every combination of its ${names.inputs.length} input${names.inputs.length === 1 ? "" : "s"} in Gray-code order${ctx.stateNames.length ? ", forward and back" : ""} (${st.vectors.length} steps)`
+        : `${st.vectors.length} random vectors (seed ${st.seed})`,
+    clockLines: clock
+      ? [
+          `Clock ${clock.input}: period ${eng(4 * T, "s")} (${eng(1 / (4 * T), "Hz")}), high for the middle two steps of each`,
+          `cycle. The other inputs change one step (a quarter period) before each rising edge.`,
+        ]
+      : [],
+    icLines: ics.map((ic) => `v(${ic.node})=${spiceNumber(ic.volts, 4)}`),
+    icComment: ics.length
+      ? `Initial state (held while the operating point is found, released at t = 0): ${ics.map((ic) => `${ic.name} = ${ic.value}`).join(", ")}${st.defaults?.length ? `; ${st.defaults.join(", ")} start${st.defaults.length === 1 ? "s" : ""} at 0 because no init declaration sets ${st.defaults.length === 1 ? "it" : "them"}` : ""}.`
+      : "",
+    stateNodes: stateNets.map((s) => s.name).join(" "),
     stepText: eng(T, "s"),
     sampleText: eng(T * SAMPLE_FRACTION, "s"),
     pullUpText: eng(d.inputDriver.pullUpOhms, "Ω"),
-    thresholds: names.outputs.map((o, k) => {
-      const lv = outputLevels(d, k);
-      return { node: o, vilText: eng(lv.vilVolts, "V"), vihText: eng(lv.vihVolts, "V") };
-    }),
+    thresholds: [
+      ...names.outputs.map((o, k) => ({ node: o, lv: outputLevels(d, k) })),
+      ...stateNets.map((sn) => ({ node: sn.node, lv: netLevels(d, sn.net) })),
+    ].map(({ node, lv }) => ({ node, vilText: eng(lv.vilVolts, "V"), vihText: eng(lv.vihVolts, "V") })),
     optionsLine: "reltol=1e-4 abstol=1e-12 vntol=1e-6 itl4=100",
     supplyValue: spiceNumber(supply),
     sources,
@@ -232,7 +312,7 @@ export function renderTestbench(ctx: EmitContext, names: SpiceNames, files: { ne
     tranStep: spiceNumber(T / 200),
     tranStop: spiceNumber(stop),
     tranMaxStep: spiceNumber(T / 50),
-    saveList: [...names.inputs, ...names.outputs].map((x) => `v(${x})`).concat(["i(vcc)"]).join(" "),
+    saveList: [...names.inputs, ...names.outputs].map((x) => `v(${x})`).concat(stateNets.map((s) => `v(${s.node})`), ["i(vcc)"]).join(" "),
     outputs: nl.outputs.map((o) => o.name).join(" "),
     steps,
   });

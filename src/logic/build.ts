@@ -2,7 +2,7 @@
 // names do not add up (undefined, driven twice, never driven, unused).
 import { diag, hasErrors, type Diagnostic, type StageResult } from "../diagnostics/index.js";
 import type { DesignSource, Expr } from "../syntax/index.js";
-import type { LogicGraph, LogicNode, Port } from "./graph.js";
+import type { DontCareSet, LogicGraph, LogicNode, Port } from "./graph.js";
 import { nearestName } from "./names.js";
 
 export function buildLogicGraph(src: DesignSource): StageResult<LogicGraph> {
@@ -152,8 +152,28 @@ export function buildLogicGraph(src: DesignSource): StageResult<LogicGraph> {
     }
   }
 
+  // Don't-cares (minterm functions and truth tables): kept by signal name, over input names.
+  const dontCares: DontCareSet[] = [];
+  if (src.dontCares?.length) {
+    const inputNames = new Set(src.inputs.map((d) => d.name));
+    for (const dc of src.dontCares) {
+      if (!assignedAt.has(dc.target)) continue; // the assignment itself was refused above
+      const bad = dc.variables.find((v) => !inputNames.has(v.name));
+      if (bad) {
+        diagnostics.push(
+          diag("GW2016", `'${bad.name}' is not a declared input; the don't-cares of '${dc.target}' are written over inputs only`, at(bad.span), {
+            hint: `declare it with 'input ${bad.name};'`,
+          }),
+        );
+        continue;
+      }
+      dontCares.push({ signal: dc.target, variables: dc.variables.map((v) => v.name), cubes: [...dc.cubes] });
+    }
+  }
+
   if (hasErrors(diagnostics)) return { diagnostics };
   const graph: LogicGraph = { name: src.name, file, nodes, inputs, outputs };
+  if (dontCares.length) graph.dontCares = dontCares;
   return { value: graph, diagnostics };
 }
 

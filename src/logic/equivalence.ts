@@ -1,7 +1,10 @@
 // Equivalence of two logic graphs over the same input names and the same state signal names.
 // Each output and each state signal's next value is compared over its support: exhaustively,
 // bit-parallel, when the support is small enough; with seeded random vectors otherwise.
-import type { LogicGraph } from "./graph.js";
+// Don't-care points of the reference's outputs (src/logic/dontcares.ts) are free: the two
+// graphs may differ there.
+import type { DontCareSet, LogicGraph } from "./graph.js";
+import { dontCareWords, usableDontCares } from "./dontcares.js";
 import { evaluationOrder } from "./loops.js";
 import { enumerationWords, evalOpWords, seededRandom, simulateWords } from "./evaluate.js";
 
@@ -13,6 +16,8 @@ export interface EquivalenceOptions {
   /** Random vectors per cone above that, in words of 32 vectors. */
   randomWords?: number;
   seed?: number;
+  /** Don't-cares of the outputs, by output name (default: the usable don't-cares of `ref`). */
+  dontCares?: ReadonlyMap<string, DontCareSet>;
 }
 
 export interface ConeCheck {
@@ -21,6 +26,8 @@ export interface ConeCheck {
   support: number;
   exhaustive: boolean;
   vectors: number;
+  /** Points left free by the output's don't-cares (exhaustive checks only). */
+  dontCarePoints?: number;
 }
 
 export interface Counterexample {
@@ -138,8 +145,10 @@ export function checkEquivalence(ref: LogicGraph, impl: LogicGraph, opts: Equiva
 
   const rand = seededRandom(opts.seed ?? 0x5eed);
   const cones: ConeCheck[] = [];
+  const free = opts.dontCares ?? usableDontCares(ref, opts.stateNames);
   for (const o of observed) {
-    const sup = [...new Set([...support(a, o.ra, o.through), ...support(b, o.rb, o.through)])].sort();
+    const dc = o.kind === "output" ? free.get(o.name) : undefined;
+    const sup = [...new Set([...support(a, o.ra, o.through), ...support(b, o.rb, o.through), ...(dc?.variables ?? [])])].sort();
     const exhaustive = sup.length <= maxEx;
     const words = exhaustive ? Math.max(1, 2 ** Math.max(0, sup.length - 5)) : randomWords;
     const assign = new Map<string, Uint32Array>();
@@ -155,9 +164,22 @@ export function checkEquivalence(ref: LogicGraph, impl: LogicGraph, opts: Equiva
     const vb = evaluateObserved(b, o.rb, o.through, assign, words);
     // Only the first 2^k vectors are meaningful when k < 5.
     const mask = exhaustive && sup.length < 5 ? (2 ** (2 ** sup.length) - 1) >>> 0 : 0xffffffff;
-    cones.push({ name: o.name, kind: o.kind, support: sup.length, exhaustive, vectors: exhaustive ? 2 ** sup.length : words * 32 });
+    const check: ConeCheck = { name: o.name, kind: o.kind, support: sup.length, exhaustive, vectors: exhaustive ? 2 ** sup.length : words * 32 };
+    const dcw = dc ? dontCareWords(dc, (name) => assign.get(name), words) : undefined;
+    if (dcw && exhaustive) {
+      let count = 0;
+      for (let w = 0; w < words; w++) {
+        let x = (dcw[w]! & mask) >>> 0;
+        while (x) {
+          x &= x - 1;
+          count++;
+        }
+      }
+      check.dontCarePoints = count;
+    }
+    cones.push(check);
     for (let w = 0; w < words; w++) {
-      const diff = ((va[w]! ^ vb[w]!) & mask) >>> 0;
+      const diff = ((va[w]! ^ vb[w]!) & mask & (dcw ? ~dcw[w]! : 0xffffffff)) >>> 0;
       if (diff) {
         const bit = 31 - Math.clz32(diff & -diff);
         const assignment: Record<string, 0 | 1> = {};

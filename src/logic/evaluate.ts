@@ -154,35 +154,66 @@ function evalTri(op: LogicOp, a: Tri[]): Tri {
 export interface StepResult {
   /** Output values in the graph's output order. */
   outputs: Tri[];
-  /** Stored state after the step, by cut node id. */
-  state: Map<number, Tri>;
-  /** True when the state settled without an X forced by a race or an oscillation. */
+  /** True when every signal settled without an X forced by a race or an oscillation. */
   settled: boolean;
 }
 
 /**
- * A sequential simulator that applies input vectors one at a time and lets the loops settle,
- * starting from an unknown (X) state unless an initial state is given. Signals whose value
- * depends on a race between loop signals, or that oscillate, become X.
+ * A sequential simulator that applies input vectors one at a time and lets the circuit settle.
+ * Every named signal (an assigned signal of the source, a net of a cell netlist) has one unit
+ * of delay, so two loop signals that change together race as they do in the circuit; a race or
+ * an oscillation that does not settle leaves the signals involved unknown (X). The state starts
+ * unknown unless an initial state is given.
  */
 export class StepSimulator {
   readonly cuts: number[];
+  private readonly delayed: number[];
   private readonly order: number[];
   private state: Map<number, Tri>;
   private readonly values: Tri[];
 
-  constructor(private readonly g: LogicGraph, initial?: Map<string, 0 | 1>) {
+  constructor(private readonly g: LogicGraph, initial?: ReadonlyMap<string, Tri>) {
     this.cuts = analyzeLoops(g).cuts;
-    const order = evaluationOrder(g, new Set(this.cuts));
+    const delayed = new Set<number>(this.cuts);
+    g.nodes.forEach((n, id) => {
+      if (n.name !== undefined && n.op !== "input" && n.op !== "const0" && n.op !== "const1") delayed.add(id);
+    });
+    this.delayed = [...delayed].sort((a, b) => a - b);
+    const order = evaluationOrder(g, delayed);
     if (!order) throw new Error("loop analysis left a loop uncut");
     this.order = order;
     this.values = new Array(g.nodes.length).fill("X");
-    this.state = new Map(this.cuts.map((c) => [c, initial?.get(g.nodes[c]!.name ?? "") ?? "X"]));
+    this.state = new Map(this.delayed.map((c) => [c, initial?.get(g.nodes[c]!.name ?? "") ?? "X"]));
   }
 
   /** Names of the state signals (loop cut points). */
   stateNames(): string[] {
     return this.cuts.map((c) => this.g.nodes[c]!.name ?? `#${c}`);
+  }
+
+  /** Current value of a named signal. */
+  valueOf(name: string): Tri | undefined {
+    const id = this.g.nodes.findIndex((n) => n.name === name);
+    return id < 0 ? undefined : this.values[id];
+  }
+
+  /** The stored value of every named signal (what `initial` takes to start from here). */
+  namedState(): Map<string, Tri> {
+    const out = new Map<string, Tri>();
+    for (const [id, v] of this.state) {
+      const name = this.g.nodes[id]!.name;
+      if (name !== undefined && !out.has(name)) out.set(name, v);
+    }
+    return out;
+  }
+
+  /** A copy of the stored state, to come back to with `restore`. */
+  snapshot(): Map<number, Tri> {
+    return new Map(this.state);
+  }
+
+  restore(snapshot: ReadonlyMap<number, Tri>): void {
+    this.state = new Map(snapshot);
   }
 
   private evaluate(inputs: readonly (0 | 1)[]): void {
@@ -191,8 +222,9 @@ export class StepSimulator {
     for (const id of this.order) {
       const node = g.nodes[id]!;
       if (node.op === "input") continue;
-      if (this.state.has(id)) {
-        this.values[id] = this.state.get(id)!;
+      const st = this.state.get(id);
+      if (st !== undefined) {
+        this.values[id] = st;
         continue;
       }
       this.values[id] = evalTri(node.op, node.fanins.map((f) => this.values[f]!));
@@ -204,38 +236,49 @@ export class StepSimulator {
     return evalTri(node.op, node.fanins.map((f) => this.values[f]!));
   }
 
-  step(inputs: readonly (0 | 1)[]): StepResult {
-    const limit = 2 * this.cuts.length + 4;
+  /**
+   * Applies an input vector and lets the circuit settle. Signals named in `hold` are held at the
+   * given values meanwhile (as a simulator's initial condition holds a node while it finds the
+   * operating point); the next step releases them.
+   */
+  step(inputs: readonly (0 | 1)[], hold?: ReadonlyMap<string, 0 | 1>): StepResult {
+    const held = new Map<number, 0 | 1>();
+    if (hold) {
+      this.g.nodes.forEach((n, id) => {
+        const v = n.name !== undefined ? hold.get(n.name) : undefined;
+        if (v !== undefined && this.state.has(id)) held.set(id, v);
+      });
+      for (const [id, v] of held) this.state.set(id, v);
+    }
+    const limit = 4 * this.delayed.length + 8;
     let settled = true;
-    let iterations = 0;
-    const changes = new Map<number, number>();
-    for (;;) {
+    const lastChange = new Map<number, number>();
+    let iteration = 0;
+    for (;; iteration++) {
       this.evaluate(inputs);
-      let changed = false;
-      const nextState = new Map<number, Tri>();
-      for (const c of this.cuts) {
+      const updates: [number, Tri][] = [];
+      for (const c of this.delayed) {
+        if (held.has(c)) continue;
         const v = this.next(c);
-        nextState.set(c, v);
-        if (v !== this.state.get(c)) {
-          changed = true;
-          changes.set(c, (changes.get(c) ?? 0) + 1);
-        }
+        if (v !== this.state.get(c)) updates.push([c, v]);
       }
-      if (!changed) break;
-      this.state = nextState;
-      if (++iterations > limit) {
-        // Oscillation or race: the signals that kept changing are unknown.
+      if (updates.length === 0) break;
+      for (const [c, v] of updates) {
+        this.state.set(c, v);
+        lastChange.set(c, iteration);
+      }
+      if (iteration >= limit) {
+        // Not settling: whatever changed in the last rounds oscillates or races.
         settled = false;
-        for (const [c, n] of changes) if (n > 1) this.state.set(c, "X");
-        // With X absorbing, a few more passes reach a fixed point.
+        for (const [c, it] of lastChange) if (it >= iteration - 2) this.state.set(c, "X");
         for (let k = 0; k < limit; k++) {
           this.evaluate(inputs);
           let again = false;
-          for (const c of this.cuts) {
+          for (const c of this.delayed) {
+            if (this.state.get(c) === "X" || held.has(c)) continue;
             const v = this.next(c);
-            const merged: Tri = this.state.get(c) === "X" ? "X" : v;
-            if (merged !== this.state.get(c)) {
-              this.state.set(c, merged);
+            if (v !== this.state.get(c)) {
+              this.state.set(c, v === "X" ? "X" : v);
               again = true;
             }
           }
@@ -245,10 +288,6 @@ export class StepSimulator {
         break;
       }
     }
-    return {
-      outputs: this.g.outputs.map((p) => this.values[p.node]!),
-      state: new Map(this.state),
-      settled,
-    };
+    return { outputs: this.g.outputs.map((p) => this.values[p.node]!), settled };
   }
 }

@@ -19,12 +19,25 @@ export interface Port {
   span?: Span;
 }
 
+/** Points where a named signal's value is free, as cubes over input names (see
+ *  src/logic/dontcares.ts for when they may be used). */
+export interface DontCareSet {
+  /** Name of the assigned signal. */
+  signal: string;
+  /** Input names the cubes are written over (first = leftmost character). */
+  variables: string[];
+  /** One character per variable: '0', '1' or '-'. */
+  cubes: string[];
+}
+
 export interface LogicGraph {
   name: string;
   file?: string;
   nodes: LogicNode[];
   inputs: Port[];
   outputs: Port[];
+  /** Don't-cares of the source (absent when there are none). */
+  dontCares?: DontCareSet[];
 }
 
 /** Number of operands each node is read by, and by which nodes. */

@@ -36,11 +36,59 @@ export interface RawNameList {
   prev: RawNameList | null;
 }
 
-/** One statement. New statement kinds (state elements, truth tables) add a member here and a
- *  rule under `statement` in the grammar. */
+/** A linked list, last item first (appending is O(1)). */
+export interface RawList<T> {
+  item: T;
+  prev: RawList<T> | null;
+}
+
+/** A minterm number or an inclusive range `lo-hi`: token indices. */
+export interface RawTermNumber {
+  first: number;
+  /** The `hi` token of a range. */
+  last: number | null;
+}
+
+/** `m(1, 3, 5)`: the group's name token, its numbers and its closing parenthesis. */
+export interface RawTermGroup {
+  name: number;
+  numbers: RawList<RawTermNumber> | null;
+  close: number;
+}
+
+/** The groups of a minterm function, with the prefix token ('Σ', 'Π', 'sum', 'prod') if any. */
+export interface RawTermList {
+  prefix: number | null;
+  groups: RawList<{ group: RawTermGroup; sep: number | null }>;
+}
+
+/** A truth-table row: tokens of the input values, of the output values, the ':' and the ';'. */
+export interface RawTableRow {
+  inputs: RawList<number>;
+  outputs: RawList<number>;
+  last: number;
+}
+
+/** One statement. New statement kinds (state elements) add a member here and a rule under
+ *  `statement` in the grammar. */
 export type RawStatement =
   | { t: "decl"; direction: "input" | "output"; names: RawNameList; first: number; last: number }
-  | { t: "assign"; target: number; expr: RawExpr; first: number; last: number };
+  | { t: "assign"; target: number; expr: RawExpr; first: number; last: number }
+  | { t: "function"; target: number; variables: RawNameList; terms: RawTermList; first: number; last: number }
+  | {
+      t: "table";
+      inputs: RawNameList;
+      outputs: RawNameList;
+      rows: RawList<RawTableRow> | null;
+      first: number;
+      last: number;
+    }
+  /** `init q = 0, r = 1;` */
+  | { t: "init"; items: RawList<{ name: number; value: number }>; first: number; last: number }
+  /** `oscillator ring;` */
+  | { t: "oscillator"; names: RawNameList; first: number; last: number }
+  /** `q = dff(d, clk);`: a built-in state element. */
+  | { t: "call"; target: number; fn: number; args: RawList<RawExpr>; first: number; last: number };
 
 type Tok = StatementToken;
 
@@ -73,5 +121,44 @@ export const raw = {
   },
   assignment(target: Tok, expr: RawExpr, semi: Tok): RawStatement {
     return { t: "assign", target: target.index, expr, first: target.index, last: semi.index };
+  },
+  list<T>(prev: RawList<T> | null, item: T): RawList<T> {
+    return { item, prev };
+  },
+  termNumber(first: Tok, last: Tok | null): RawTermNumber {
+    return { first: first.index, last: last ? last.index : null };
+  },
+  termGroup(name: Tok, numbers: RawList<RawTermNumber> | null, close: Tok): RawTermGroup {
+    return { name: name.index, numbers, close: close.index };
+  },
+  termsFirst(prefix: Tok | null, group: RawTermGroup): RawTermList {
+    return { prefix: prefix ? prefix.index : null, groups: { item: { group, sep: null }, prev: null } };
+  },
+  termsMore(list: RawTermList, sep: Tok | null, group: RawTermGroup): RawTermList {
+    return { prefix: list.prefix, groups: { item: { group, sep: sep ? sep.index : null }, prev: list.groups } };
+  },
+  functionDef(target: Tok, variables: RawNameList, terms: RawTermList, semi: Tok): RawStatement {
+    return { t: "function", target: target.index, variables, terms, first: target.index, last: semi.index };
+  },
+  tableRow(inputs: RawList<number>, outputs: RawList<number>, semi: Tok): RawTableRow {
+    return { inputs, outputs, last: semi.index };
+  },
+  initItem(prev: RawList<{ name: number; value: number }> | null, name: Tok, value: Tok): RawList<{ name: number; value: number }> {
+    return { item: { name: name.index, value: value.index }, prev };
+  },
+  initDecl(keyword: Tok, items: RawList<{ name: number; value: number }>, semi: Tok): RawStatement {
+    return { t: "init", items, first: keyword.index, last: semi.index };
+  },
+  oscillatorDecl(keyword: Tok, names: RawNameList, semi: Tok): RawStatement {
+    return { t: "oscillator", names, first: keyword.index, last: semi.index };
+  },
+  args(prev: RawList<RawExpr> | null, expr: RawExpr): RawList<RawExpr> {
+    return { item: expr, prev };
+  },
+  call(target: Tok, fn: Tok, args: RawList<RawExpr>, semi: Tok): RawStatement {
+    return { t: "call", target: target.index, fn: fn.index, args, first: target.index, last: semi.index };
+  },
+  table(keyword: Tok, inputs: RawNameList, outputs: RawNameList, rows: RawList<RawTableRow> | null, close: Tok): RawStatement {
+    return { t: "table", inputs, outputs, rows, first: keyword.index, last: close.index };
   },
 };

@@ -15,6 +15,9 @@
 //   GW1006 nesting deeper than MAX_NESTING        GW1007 a number other than 0 or 1
 //   GW1008 control characters: not a text file    GW1009 stopped after MAX_ERRORS errors
 //   GW2005 a name declared twice (input/output)   GW9001 an exception inside gatewright
+//   GW1007, GW1020, GW1021 in state statements (init, state elements): see equations-state.ts
+//   GW1010-GW1017, GW2016, GW2017 in minterm functions and truth tables (grammar header; GW2016,
+//   a variable that is not a declared input, is checked once the whole file is read)
 // The result has a value (the statements that were read correctly) unless the file is not
 // text or gatewright failed; callers check the diagnostics for errors before going on.
 //
@@ -25,10 +28,11 @@
 import nearley from "nearley";
 import type { Lexer, Token } from "moo";
 import grammar, { equationLexer } from "./generated/equations.js";
-import type { RawExpr, RawNameList, RawStatement, StatementToken } from "./equations-syntax.js";
+import type { RawExpr, RawList, RawNameList, RawStatement, StatementToken } from "./equations-syntax.js";
 import { diag, type Diagnostic, type RelatedInfo, type Span, type StageResult } from "../diagnostics/index.js";
-import type { Assignment, Declaration, DesignSource, Expr } from "../syntax/index.js";
+import type { Assignment, Declaration, DesignSource, DontCareSource, Expr } from "../syntax/index.js";
 import { build } from "../syntax/index.js";
+import { acceptStateStatement, type StateParts } from "./equations-state.js";
 
 /**
  * Deepest nesting accepted in one statement (GW1006 beyond it). Depth is counted on the token
@@ -44,6 +48,19 @@ import { build } from "../syntax/index.js";
  * levels parse in about 0.1 s; nobody writes that many by hand.
  */
 export const MAX_NESTING = 2000;
+
+/** Most variables of a minterm function or inputs of a truth table (GW1017 beyond). Cubes are
+ *  kept as 32-bit masks, and the optimizer and the equivalence check work exhaustively only up
+ *  to 20 variables anyway. */
+export const MAX_FUNCTION_VARIABLES = 24;
+
+/** Most minterm numbers one function may list, ranges counted in full (GW1017 beyond): keeps
+ *  the canonical sum that a short range like m(0-16777215) would write within reason. */
+export const MAX_LISTED_POINTS = 65_536;
+
+/** Most don't-care cubes one truth-table output may have after the rows that give values are
+ *  taken out of its '-' rows (GW1017 beyond). */
+export const MAX_DONT_CARE_CUBES = 65_536;
 
 /** Errors reported before reading stops (with a GW1009 note). */
 export const MAX_ERRORS = 50;
@@ -70,15 +87,26 @@ const PARSES_DEPEND_ONLY_ON_KINDS = compiled.rules.every((rule) =>
 const EXPECTED_WORDS: Record<string, string> = {
   kwInput: "'input'",
   kwOutput: "'output'",
+  kwInit: "'init'",
+  kwOscillator: "'oscillator'",
+  kwTable: "'table'",
   ident: "a name",
   number: "a constant",
   lparen: "'('",
   notOp: "'!'",
+  sigma: "'Σ'",
+  pi: "'Π'",
   eq: "'='",
   comma: "','",
+  colon: "':'",
+  dash: "'-'",
+  lbrace: "'{'",
+  rbrace: "'}'",
   rparen: "')'",
   semi: "';'",
 };
+/** Keywords that start a statement; inside a table's braces one means its '}' is missing. */
+const KEYWORD_KINDS = ["kwInput", "kwOutput", "kwInit", "kwOscillator", "kwTable"];
 const OPERATOR_KINDS = ["andOp", "orOp", "xorOp", "postNot"];
 const EXPRESSION_START_KINDS = ["ident", "number", "lparen", "notOp"];
 
@@ -115,7 +143,7 @@ interface ParserInternals {
   reportLexerError: (error: unknown) => string;
 }
 
-type StatementKind = "declaration" | "assignment";
+type StatementKind = "declaration" | "assignment" | "function" | "table";
 
 /** Reads an equation file. Never throws: an exception inside becomes a GW9001 diagnostic. */
 export function parseEquations(text: string, file: string): StageResult<DesignSource> {
@@ -149,6 +177,13 @@ class EquationReader {
   private readonly inputs: Declaration[] = [];
   private readonly outputs: Declaration[] = [];
   private readonly assignments: Assignment[] = [];
+  /** Don't-cares of minterm functions and truth tables. */
+  private readonly dontCares: DontCareSource[] = [];
+  /** Variables of minterm functions and truth tables, checked against the declarations at the
+   *  end (declarations may come after the statements that use them). */
+  private readonly functionVariables: Declaration[] = [];
+  /** `init`, `oscillator` and state elements (equations-state.ts). */
+  private readonly stateParts: StateParts = { initials: [], oscillators: [], stateElements: [] };
   private readonly declared = new Map<string, { direction: "input" | "output"; span: Span }>();
   private readonly statementTokens = new StatementTokens();
   /** Parses by statement shape (token kinds, one character each). */
@@ -172,6 +207,10 @@ class EquationReader {
         wires: [],
         assignments: this.assignments,
         language: "equations",
+        ...(this.stateParts.initials.length ? { initials: this.stateParts.initials } : {}),
+        ...(this.stateParts.oscillators.length ? { oscillators: this.stateParts.oscillators } : {}),
+        ...(this.stateParts.stateElements.length ? { stateElements: this.stateParts.stateElements } : {}),
+        ...(this.dontCares.length ? { dontCares: this.dontCares } : {}),
       },
       diagnostics: this.diagnostics,
     };
@@ -225,11 +264,14 @@ class EquationReader {
     lexer.reset(text);
     let statement: StatementToken[] = [];
     let shape = "";
-    let skipping = false; // the current statement already has an error; wait for ';'
+    let skipping = false; // the current statement already has an error; wait for its end
     // Nesting depth (see MAX_NESTING).
     let level = 0;
     let notRun = 0;
     const levels: number[] = [];
+    // Braces of a truth table: inside them ';' ends a row, and the closing '}' the statement.
+    let braces = 0;
+    let openBrace: Token | undefined;
 
     for (let tok = lexer.next(); tok !== undefined && !this.stopped; tok = lexer.next()) {
       const type = tok.type!;
@@ -238,7 +280,35 @@ class EquationReader {
         this.report(diag("GW1004", "this comment is never closed: '/*' without '*/'", this.at(tok.offset, 2)));
         return; // the comment runs to the end of the file; the statement it cut off is lost
       }
-      if (skipping && type !== "semi") continue;
+      if (braces > 0 && KEYWORD_KINDS.includes(type)) {
+        // A keyword inside a table: its '}' is missing. The table is dropped and the keyword
+        // starts the next statement.
+        if (!skipping) {
+          this.report(
+            diag("GW1002", `expected '}' to close the table before ${this.quote(tok)}`, this.at(tok.offset, tok.text.length), {
+              hint: "a truth table ends with '}'",
+              related: openBrace ? [{ message: "this '{' is not closed", file: this.file, start: openBrace.offset, length: 1 }] : [],
+            }),
+          );
+        }
+        statement = [];
+        shape = "";
+        skipping = false;
+        level = 0;
+        notRun = 0;
+        levels.length = 0;
+        braces = 0;
+      }
+      let closes = false;
+      if (type === "lbrace") {
+        if (braces === 0) openBrace = tok;
+        braces++;
+      } else if (type === "rbrace" && braces > 0) {
+        braces--;
+        closes = braces === 0;
+      }
+      const ends = closes || (type === "semi" && braces === 0);
+      if (skipping && !ends) continue;
       if (type === "invalid") {
         this.report(this.invalidCharacter(tok));
         skipping = true;
@@ -248,7 +318,7 @@ class EquationReader {
       st.index = statement.length;
       statement.push(st);
       if (statement.length <= MAX_REUSED_TOKENS) shape += this.kindCode(type);
-      if (type === "semi") {
+      if (ends) {
         if (!skipping) this.statement(statement, shape, false);
         statement = [];
         shape = "";
@@ -281,6 +351,26 @@ class EquationReader {
       }
     }
     if (!this.stopped && !skipping && statement.length) this.statement(statement, shape, true);
+    this.checkFunctionVariables();
+  }
+
+  /** The variables of minterm functions and truth tables must be declared inputs (GW2016). */
+  private checkFunctionVariables(): void {
+    for (const v of this.functionVariables) {
+      const d = this.declared.get(v.name);
+      if (d?.direction === "input") continue;
+      const shown = v.name.length > MAX_QUOTED ? `${v.name.slice(0, MAX_QUOTED)}...` : v.name;
+      this.report(
+        diag(
+          "GW2016",
+          d ? `'${shown}' is an output; the variables of a function or table must be declared inputs` : `'${shown}' is not a declared input; the variables of a function or table must be inputs`,
+          { file: this.file, span: v.span },
+          d
+            ? { related: [{ message: "declared as an output here", file: this.file, start: d.span.start, length: d.span.length }] }
+            : { hint: `declare it with 'input ${shown};'` },
+        ),
+      );
+    }
   }
 
   private invalidCharacter(tok: Token): Diagnostic {
@@ -376,7 +466,9 @@ class EquationReader {
 
   private kindOf(tokens: Token[]): StatementKind {
     const first = tokens[0]!.type;
-    return first === "kwInput" || first === "kwOutput" ? "declaration" : "assignment";
+    if (first === "kwTable") return "table";
+    if (first === "kwInput" || first === "kwOutput" || first === "kwInit" || first === "kwOscillator") return "declaration";
+    return tokens[1]?.type === "lparen" ? "function" : "assignment";
   }
 
   /** The innermost '(' still open before token index `upTo`. */
@@ -395,11 +487,24 @@ class EquationReader {
     const found = tokens[index]!;
     const previous = index > 0 ? tokens[index - 1] : undefined;
     const kinds = this.expectedKinds(internals);
+    // After a complete operand, '(' could only open a state element's arguments
+    // (`q = dff(...)`); naming it beside the operators would mislead.
+    if (OPERATOR_KINDS.some((k) => kinds.has(k))) kinds.delete("lparen");
+    // Right after a statement's first name '(' would start a minterm function; the likely
+    // intent of anything else there is an assignment, so only '=' is offered.
+    if (index === 1 && tokens[0]!.type === "ident" && kinds.has("eq")) kinds.delete("lparen");
     const kind = this.kindOf(tokens);
     let message: string;
     let hint: string | undefined;
     const related: RelatedInfo[] = [];
-    if (previous && kinds.has("semi") && found.line > previous.line + previous.lineBreaks) {
+    let at = found;
+    const before = index > 1 ? tokens[index - 2] : undefined;
+    if (kind === "function" && previous?.type === "ident" && kinds.has("lparen") && before && previous.line > before.line + before.lineBreaks) {
+      // A minterm function ran on into the next line (its last group took the next name).
+      message = `expected ';' after the function, found ${this.quote(previous)}`;
+      hint = `every statement ends with ';' (is one missing at the end of line ${before.line}?)`;
+      at = previous;
+    } else if (previous && kinds.has("semi") && found.line > previous.line + previous.lineBreaks) {
       // The statement runs on into the next line: almost always a forgotten ';'.
       message = `expected ';' after the ${kind}, found ${this.quote(found)}`;
       hint = `every statement ends with ';' (is one missing at the end of line ${previous.line}?)`;
@@ -409,7 +514,7 @@ class EquationReader {
         ? `expected ${expected} after ${this.quote(previous)}, found ${this.quote(found)}`
         : `expected ${expected}, found ${this.quote(found)}`;
     }
-    const keyword = [found, previous].find((t) => t && (t.type === "kwInput" || t.type === "kwOutput"));
+    const keyword = [found, previous].find((t) => t && KEYWORD_KINDS.includes(t.type!));
     if (keyword && (kinds.has("ident") || (index === 1 && found.type === "eq"))) {
       hint = `'${keyword.text}' is a keyword and cannot name a signal`;
     } else {
@@ -422,7 +527,7 @@ class EquationReader {
       }
     }
     this.report(
-      diag("GW1002", message, this.at(found.offset, found.text.length), {
+      diag("GW1002", message, this.at(at.offset, at.text.length), {
         ...(hint !== undefined ? { hint } : {}),
         related,
       }),
@@ -450,6 +555,8 @@ class EquationReader {
   // ---- building the design source -----------------------------------------------------------
 
   private accept(statement: RawStatement, tokens: StatementToken[]): void {
+    const stateContext = { file: this.file, report: (d: Diagnostic) => this.report(d), toExpr: (e: RawExpr, t: StatementToken[]) => this.toExpr(e, t) };
+    if (acceptStateStatement(statement, tokens, this.stateParts, stateContext)) return;
     switch (statement.t) {
       case "decl":
         this.declare(statement.direction, statement.names, tokens);
@@ -466,6 +573,417 @@ class EquationReader {
         });
         return;
       }
+      case "function":
+        this.acceptFunction(statement, tokens);
+        return;
+      case "table":
+        this.acceptTable(statement, tokens);
+        return;
+    }
+  }
+
+  // ---- minterm functions and truth tables ---------------------------------------------------
+
+  private shown(name: string): string {
+    return name.length > MAX_QUOTED ? `${name.slice(0, MAX_QUOTED)}...` : name;
+  }
+
+  /** The names of a list in order, with GW2017 for a name already in `seen`. */
+  private variableList(names: RawNameList, tokens: StatementToken[], seen: Map<string, Span>): Declaration[] | undefined {
+    const list: Token[] = [];
+    for (let n: RawNameList | null = names; n; n = n.prev) list.push(tokens[n.at]!);
+    list.reverse();
+    let ok = true;
+    const out: Declaration[] = [];
+    for (const tok of list) {
+      const span: Span = { start: tok.offset, length: tok.text.length };
+      const first = seen.get(tok.text);
+      if (first) {
+        ok = false;
+        this.report(
+          diag("GW2017", `${this.quote(tok)} is listed twice`, { file: this.file, span }, {
+            related: [{ message: "first listed here", file: this.file, start: first.start, length: first.length }],
+          }),
+        );
+        continue;
+      }
+      seen.set(tok.text, span);
+      out.push({ name: tok.text, span });
+    }
+    return ok ? out : undefined;
+  }
+
+  private tooManyVariables(what: string, vars: Declaration[]): boolean {
+    if (vars.length <= MAX_FUNCTION_VARIABLES) return false;
+    const first = vars[0]!.span;
+    const last = vars[vars.length - 1]!.span;
+    this.report(
+      diag("GW1017", `${what} has ${vars.length} variables; at most ${MAX_FUNCTION_VARIABLES} are allowed`, this.at(first.start, last.start + last.length - first.start), {
+        hint: "split it into smaller functions through internal signals, or write it as equations",
+      }),
+    );
+    return true;
+  }
+
+  /** `F(a, b, c) = Σm(1, 3) + d(7);` → the canonical sum (or product) and the don't-cares. */
+  private acceptFunction(st: Extract<RawStatement, { t: "function" }>, tokens: StatementToken[]): void {
+    const target = tokens[st.target]!;
+    const vars = this.variableList(st.variables, tokens, new Map());
+    if (!vars) return;
+    this.functionVariables.push(...vars);
+    if (this.tooManyVariables(`'${this.shown(target.text)}'`, vars)) return;
+    const n = vars.length;
+    const size = 2 ** n;
+    let ok = true;
+
+    let prefix: "sum" | "prod" | undefined;
+    if (st.terms.prefix !== null) {
+      const p = tokens[st.terms.prefix]!;
+      const word = p.text.toLowerCase();
+      if (p.type === "sigma" || word === "sum") prefix = "sum";
+      else if (p.type === "pi" || word === "prod" || word === "product") prefix = "prod";
+      else {
+        ok = false;
+        this.report(
+          diag("GW1013", `expected 'sum' or 'prod' before the first group, found ${this.quote(p)}`, this.at(p.offset, p.text.length), {
+            hint: "write F(a, b) = sum m(1, 2); or F(a, b) = m(1, 2);",
+          }),
+        );
+      }
+    }
+
+    type Group = RawStatement & { t: "function" };
+    type GroupItem = Group["terms"]["groups"]["item"];
+    const groups: GroupItem[] = [];
+    for (let g: RawList<GroupItem> | null = st.terms.groups; g; g = g.prev) groups.push(g.item);
+    groups.reverse();
+
+    type Kind = "on" | "off" | "dc";
+    const listed: Record<Kind, Map<number, Span>> = { on: new Map(), off: new Map(), dc: new Map() };
+    const groupWords: Record<Kind, string> = { on: "m(...)", off: "M(...)", dc: "d(...)" };
+    let valueKind: { kind: "on" | "off"; tok: Token } | undefined;
+    let count = 0;
+    for (const { group } of groups) {
+      const nameTok = tokens[group.name]!;
+      const name = nameTok.text;
+      let kind: Kind;
+      if (name === "m") kind = "on";
+      else if (name === "M") kind = "off";
+      else if (name === "d" || name === "D" || name === "dc" || name === "DC") kind = "dc";
+      else {
+        ok = false;
+        this.report(
+          diag("GW1013", `${this.quote(nameTok)} is not a group of a minterm function`, this.at(nameTok.offset, nameTok.text.length), {
+            hint: "use m(...) for minterms, M(...) for maxterms and d(...) for don't-cares",
+          }),
+        );
+        continue;
+      }
+      if (kind !== "dc") {
+        if (valueKind && valueKind.kind !== kind) {
+          ok = false;
+          this.report(
+            diag("GW1013", "a function lists its minterms m(...) or its maxterms M(...), not both", this.at(nameTok.offset, nameTok.text.length), {
+              related: [{ message: `${valueKind.kind === "on" ? "minterms" : "maxterms"} listed here`, file: this.file, start: valueKind.tok.offset, length: valueKind.tok.text.length }],
+            }),
+          );
+          continue;
+        }
+        valueKind ??= { kind, tok: nameTok };
+        if ((prefix === "sum" && kind === "off") || (prefix === "prod" && kind === "on")) {
+          ok = false;
+          const p = tokens[st.terms.prefix!]!;
+          this.report(
+            diag(
+              "GW1013",
+              prefix === "sum" ? `a sum ('${p.text}') lists minterms m(...), not maxterms M(...)` : `a product ('${p.text}') lists maxterms M(...), not minterms m(...)`,
+              this.at(nameTok.offset, nameTok.text.length),
+            ),
+          );
+          continue;
+        }
+      }
+      const items: { first: number; last: number | null }[] = [];
+      for (let x = group.numbers; x; x = x.prev) items.push(x.item);
+      items.reverse();
+      for (const item of items) {
+        const lo = this.mintermNumber(tokens[item.first]!, n, target.text);
+        const hi = item.last === null ? lo : this.mintermNumber(tokens[item.last]!, n, target.text);
+        if (lo === undefined || hi === undefined) {
+          ok = false;
+          continue;
+        }
+        const span = spanOf(tokens, item.first, item.last ?? item.first);
+        if (hi < lo) {
+          ok = false;
+          this.report(diag("GW1010", `the range ${lo}-${hi} runs backwards`, { file: this.file, span }, { hint: `write ${hi}-${lo}` }));
+          continue;
+        }
+        count += hi - lo + 1;
+        if (count > MAX_LISTED_POINTS) {
+          this.report(
+            diag("GW1017", `'${this.shown(target.text)}' lists more than ${MAX_LISTED_POINTS} minterms`, { file: this.file, span }, {
+              hint: "list the smaller side: maxterms M(...) instead of minterms, or the other way round",
+            }),
+          );
+          return;
+        }
+        let reported = false;
+        for (let k = lo; k <= hi && k < size; k++) {
+          const same = listed[kind].get(k);
+          const otherKind: Kind | undefined =
+            kind === "dc" ? (listed.on.has(k) ? "on" : listed.off.has(k) ? "off" : undefined) : listed.dc.has(k) ? "dc" : undefined;
+          const term = kind === "off" || otherKind === "off" ? "maxterm" : "minterm";
+          if (!reported && same) {
+            ok = false;
+            reported = true;
+            this.report(
+              diag("GW1011", `${term} ${k} is listed twice`, { file: this.file, span }, {
+                related: [{ message: "first listed here", file: this.file, start: same.start, length: same.length }],
+              }),
+            );
+          } else if (!reported && otherKind) {
+            ok = false;
+            reported = true;
+            const other = listed[otherKind].get(k)!;
+            this.report(
+              diag("GW1012", `${term} ${k} is both in ${groupWords[otherKind]} and in ${groupWords[kind]}`, { file: this.file, span }, {
+                hint: "a point is either given a value or left free, not both",
+                related: [{ message: `listed in ${groupWords[otherKind]} here`, file: this.file, start: other.start, length: other.length }],
+              }),
+            );
+          }
+          if (!same) listed[kind].set(k, span);
+        }
+      }
+    }
+    if (!ok) return;
+
+    // The canonical sum of the minterms (or product of the maxterms), and the don't-cares.
+    const bitOf = (k: number, i: number) => Math.floor(k / 2 ** (n - 1 - i)) % 2;
+    const literal = (i: number, positive: boolean): Expr => {
+      const r = build.ref(vars[i]!.name, vars[i]!.span);
+      return positive ? r : build.not(r, vars[i]!.span);
+    };
+    const firstGroup = groups[0]!.group;
+    const lastGroup = groups[groups.length - 1]!.group;
+    const whole = spanOf(tokens, st.terms.prefix ?? firstGroup.name, lastGroup.close);
+    const useOff = valueKind?.kind === "off";
+    const points = [...listed[useOff ? "off" : "on"].entries()].sort((x, y) => x[0] - y[0]);
+    const terms: Expr[] = [];
+    for (const [k, span] of points) {
+      const lits = vars.map((_, i) => literal(i, useOff ? bitOf(k, i) === 0 : bitOf(k, i) === 1));
+      terms.push(lits.length === 1 ? lits[0]! : build.nary(useOff ? "or" : "and", lits, span));
+    }
+    const expr: Expr =
+      terms.length === 0 ? build.constant(useOff ? 1 : 0, whole) : terms.length === 1 ? terms[0]! : build.nary(useOff ? "and" : "or", terms, whole);
+    const targetSpan = { start: target.offset, length: target.text.length };
+    const stSpan = spanOf(tokens, st.first, st.last);
+    this.assignments.push({ target: target.text, targetSpan, expr, span: stSpan });
+    if (listed.dc.size) {
+      const cubes = [...listed.dc.keys()].sort((x, y) => x - y).map((k) => vars.map((_, i) => String(bitOf(k, i))).join(""));
+      this.dontCares.push({ target: target.text, targetSpan, variables: vars, cubes, span: stSpan });
+    }
+  }
+
+  /** A decimal minterm number below 2^n, or undefined (reported, GW1010). */
+  private mintermNumber(tok: Token, n: number, target: string): number | undefined {
+    if (!/^[0-9]+$/.test(tok.text)) {
+      this.report(diag("GW1010", `${this.quote(tok)} is not a minterm number`, this.at(tok.offset, tok.text.length), { hint: "minterm numbers are written in decimal" }));
+      return undefined;
+    }
+    const k = Number(tok.text);
+    if (!(k < 2 ** n)) {
+      this.report(
+        diag(
+          "GW1010",
+          `minterm ${this.shown(tok.text)} is out of range: '${this.shown(target)}' has ${n} variable${n > 1 ? "s" : ""}, so its minterms are 0 to ${2 ** n - 1}`,
+          this.at(tok.offset, tok.text.length),
+        ),
+      );
+      return undefined;
+    }
+    return k;
+  }
+
+  /** `table a, b : y { 00 : 1; ... }` → one assignment per output, and the don't-cares. */
+  private acceptTable(st: Extract<RawStatement, { t: "table" }>, tokens: StatementToken[]): void {
+    const seen = new Map<string, Span>();
+    const ins = this.variableList(st.inputs, tokens, seen);
+    const outs = this.variableList(st.outputs, tokens, seen);
+    if (ins) this.functionVariables.push(...ins);
+    if (!ins || !outs) return;
+    if (this.tooManyVariables("this table", ins)) return;
+    const n = ins.length;
+    const full = (2 ** n - 1) >>> 0;
+
+    type Row = { mask: number; value: number; outs: string; span: Span; index: number };
+    const rows: Row[] = [];
+    type RawRow = NonNullable<typeof st.rows>["item"];
+    const rawRows: RawRow[] = [];
+    for (let r = st.rows; r; r = r.prev) rawRows.push(r.item);
+    rawRows.reverse();
+    let ok = true;
+    const cellsOf = (list: RawList<number>): { text: string; first: number; last: number } | undefined => {
+      const idx: number[] = [];
+      for (let x: RawList<number> | null = list; x; x = x.prev) idx.push(x.item);
+      idx.reverse();
+      let text = "";
+      let good = true;
+      for (const i of idx) {
+        const tok = tokens[i]!;
+        if (tok.type === "dash") text += "-";
+        else if (/^[01]+$/.test(tok.text)) text += tok.text;
+        else {
+          good = false;
+          this.report(
+            diag("GW1015", `${this.quote(tok)} is not a truth-table value`, this.at(tok.offset, tok.text.length), {
+              hint: "values are 0, 1 or - (either), and may be run together: 01-",
+            }),
+          );
+        }
+      }
+      return good ? { text, first: idx[0]!, last: idx[idx.length - 1]! } : undefined;
+    };
+    const names = (ds: Declaration[]) => {
+      const list = ds.slice(0, 6).map((d) => this.shown(d.name)).join(", ");
+      return ds.length > 6 ? `${list}, ...` : list;
+    };
+    rawRows.forEach((raw, index) => {
+      const a = cellsOf(raw.inputs);
+      const b = cellsOf(raw.outputs);
+      if (!a || !b) {
+        ok = false;
+        return;
+      }
+      if (a.text.length !== n) {
+        ok = false;
+        this.report(
+          diag(
+            "GW1014",
+            `this row gives ${a.text.length} input value${a.text.length === 1 ? "" : "s"}; the table has ${n} input${n === 1 ? "" : "s"} (${names(ins)})`,
+            { file: this.file, span: spanOf(tokens, a.first, a.last) },
+          ),
+        );
+        return;
+      }
+      if (b.text.length !== outs.length) {
+        ok = false;
+        this.report(
+          diag(
+            "GW1014",
+            `this row gives ${b.text.length} output value${b.text.length === 1 ? "" : "s"}; the table has ${outs.length} output${outs.length === 1 ? "" : "s"} (${names(outs)})`,
+            { file: this.file, span: spanOf(tokens, b.first, b.last) },
+          ),
+        );
+        return;
+      }
+      let mask = 0;
+      let value = 0;
+      for (let i = 0; i < n; i++) {
+        const c = a.text[i];
+        if (c === "-") continue;
+        mask |= 1 << i;
+        if (c === "1") value |= 1 << i;
+      }
+      rows.push({ mask: mask >>> 0, value: value >>> 0, outs: b.text, span: spanOf(tokens, a.first, raw.last), index });
+    });
+    if (!ok) return;
+
+    const cubeText = (mask: number, value: number) => {
+      let t = "";
+      for (let i = 0; i < n; i++) t += (mask >>> i) & 1 ? ((value >>> i) & 1 ? "1" : "0") : "-";
+      return t;
+    };
+    const meets = (x: { mask: number; value: number }, y: { mask: number; value: number }) => ((x.value ^ y.value) & x.mask & y.mask) === 0;
+
+    // Rows that disagree: one gives 0 and another 1 at a common input combination.
+    for (let j = 0; j < outs.length && ok; j++) {
+      const fullRows = new Map<number, Row>();
+      const dashRows: Row[] = [];
+      const given: Row[] = [];
+      for (const r of rows) {
+        if (r.outs[j] === "-") continue;
+        let other: Row | undefined;
+        if (r.mask === full) {
+          const prev = fullRows.get(r.value);
+          if (prev && prev.outs[j] !== r.outs[j]) other = prev;
+          if (!prev) fullRows.set(r.value, r);
+          other ??= dashRows.find((d) => d.outs[j] !== r.outs[j] && meets(d, r));
+        } else {
+          other = given.find((x) => x.outs[j] !== r.outs[j] && meets(x, r));
+          dashRows.push(r);
+        }
+        given.push(r);
+        if (other) {
+          ok = false;
+          const point = ((r.value | other.value) & (r.mask | other.mask)) >>> 0;
+          const at = ins.map((d, i) => `${this.shown(d.name)}=${(point >>> i) & 1}`).join(" ");
+          this.report(
+            diag("GW1016", `rows ${other.index + 1} and ${r.index + 1} of the table disagree on '${this.shown(outs[j]!.name)}' at ${at}`, { file: this.file, span: r.span }, {
+              hint: "give each input combination one value, or '-' to leave it free",
+              related: [{ message: `row ${other.index + 1} gives ${other.outs[j]} here`, file: this.file, start: other.span.start, length: other.span.length }],
+            }),
+          );
+          break;
+        }
+      }
+    }
+    if (!ok) return;
+
+    const stSpan = spanOf(tokens, st.first, st.last);
+    const made: { assignment: Assignment; dc?: DontCareSource }[] = [];
+    for (let j = 0; j < outs.length; j++) {
+      const out = outs[j]!;
+      const terms: Expr[] = [];
+      for (const r of rows) {
+        if (r.outs[j] !== "1") continue;
+        const lits: Expr[] = [];
+        for (let i = 0; i < n; i++) {
+          if (!((r.mask >>> i) & 1)) continue;
+          const ref = build.ref(ins[i]!.name, ins[i]!.span);
+          lits.push((r.value >>> i) & 1 ? ref : build.not(ref, ins[i]!.span));
+        }
+        terms.push(lits.length === 0 ? build.constant(1, r.span) : lits.length === 1 ? lits[0]! : build.nary("and", lits, r.span));
+      }
+      const expr = terms.length === 0 ? build.constant(0, stSpan) : terms.length === 1 ? terms[0]! : build.nary("or", terms, stSpan);
+      const item: { assignment: Assignment; dc?: DontCareSource } = { assignment: { target: out.name, targetSpan: out.span, expr, span: stSpan } };
+      // Don't-cares: the '-' rows less every row that gives a value.
+      const givenRows = rows.filter((r) => r.outs[j] !== "-");
+      const givenFull = new Set(givenRows.filter((r) => r.mask === full).map((r) => r.value));
+      const givenDash = givenRows.filter((r) => r.mask !== full);
+      const cubes = new Set<string>();
+      for (const r of rows) {
+        if (r.outs[j] !== "-") continue;
+        if (r.mask === full) {
+          if (!givenFull.has(r.value) && !givenDash.some((g) => meets(g, r))) cubes.add(cubeText(r.mask, r.value));
+          continue;
+        }
+        let pieces = [{ mask: r.mask, value: r.value }];
+        for (const g of givenRows) {
+          if (!meets(g, r)) continue;
+          const next: { mask: number; value: number }[] = [];
+          for (const p of pieces) next.push(...sharpCube(p, g));
+          pieces = next;
+          if (pieces.length > MAX_DONT_CARE_CUBES) break;
+        }
+        for (const p of pieces) cubes.add(cubeText(p.mask, p.value));
+        if (cubes.size > MAX_DONT_CARE_CUBES) break;
+      }
+      if (cubes.size > MAX_DONT_CARE_CUBES) {
+        this.report(
+          diag("GW1017", `the '-' rows of '${this.shown(out.name)}' break into more than ${MAX_DONT_CARE_CUBES} pieces around the rows that give values`, { file: this.file, span: out.span }, {
+            hint: "write the don't-care rows with fewer '-' inputs",
+          }),
+        );
+        return;
+      }
+      if (cubes.size) item.dc = { target: out.name, targetSpan: out.span, variables: ins, cubes: [...cubes], span: stSpan };
+      made.push(item);
+    }
+    for (const m of made) {
+      this.assignments.push(m.assignment);
+      if (m.dc) this.dontCares.push(m.dc);
     }
   }
 
@@ -561,4 +1079,21 @@ function spanOf(tokens: Token[], first: number, last: number): Span {
   const start = tokens[first]!.offset;
   const end = tokens[last]!.offset + tokens[last]!.text.length;
   return { start, length: end - start };
+}
+
+/** The part of cube `a` outside cube `b`, as disjoint cubes (bit i of mask: variable i given). */
+function sharpCube(a: { mask: number; value: number }, b: { mask: number; value: number }): { mask: number; value: number }[] {
+  if ((a.value ^ b.value) & a.mask & b.mask) return [a];
+  const out: { mask: number; value: number }[] = [];
+  let mask = a.mask;
+  let value = a.value;
+  let free = (b.mask & ~a.mask) >>> 0;
+  while (free) {
+    const bit = (free & -free) >>> 0;
+    free = (free & ~bit) >>> 0;
+    out.push({ mask: (mask | bit) >>> 0, value: (value | (b.value & bit ? 0 : bit)) >>> 0 });
+    mask = (mask | bit) >>> 0;
+    value = (value | (b.value & bit)) >>> 0;
+  }
+  return out;
 }

@@ -1,6 +1,8 @@
 // Front of the pipeline: source text → logic graph with its stored state named.
 import { diag, hasErrors, type Diagnostic } from "../diagnostics/index.js";
-import { analyzeLoops, buildLogicGraph, type LogicGraph } from "../logic/index.js";
+import { buildLogicGraph, type LogicGraph } from "../logic/index.js";
+import { expandStateElements } from "../sequential/expand.js";
+import { analyzeState, type StateAnalysis } from "../sequential/state.js";
 import { parseEquations } from "../parse/equations.js";
 import { parseVerilog } from "../parse/verilog.js";
 import type { DesignSource } from "../syntax/index.js";
@@ -17,6 +19,11 @@ export interface FrontResult {
   source?: DesignSource;
   graph?: LogicGraph;
   stateNames: string[];
+  /** Names kept as nets of their own through optimization and mapping (state signals and the
+   *  nets of built-in state elements); a superset of stateNames. */
+  keptNames: string[];
+  /** Loops, state elements, initial values and clock (src/sequential/state.ts). */
+  state?: StateAnalysis;
   diagnostics: Diagnostic[];
 }
 
@@ -29,26 +36,20 @@ export function readDesign(text: string, file: string, opts: { top?: string } = 
         hint: "equation files end in .logic, structural Verilog files in .v",
       }),
     );
-    return { diagnostics, stateNames: [] };
+    return { diagnostics, stateNames: [], keptNames: [] };
   }
   const parsed = lang === "equations" ? parseEquations(text, file) : parseVerilog(text, file, opts.top !== undefined ? { top: opts.top } : {});
   diagnostics.push(...parsed.diagnostics);
-  if (!parsed.value || hasErrors(parsed.diagnostics)) return { diagnostics, stateNames: [] };
-  const built = buildLogicGraph(parsed.value);
+  if (!parsed.value || hasErrors(parsed.diagnostics)) return { diagnostics, stateNames: [], keptNames: [] };
+  // Built-in state elements (q = dff(d, clk)) become NAND gates before names are resolved.
+  const expanded = expandStateElements(parsed.value);
+  diagnostics.push(...expanded.diagnostics);
+  if (hasErrors(expanded.diagnostics)) return { source: parsed.value, diagnostics, stateNames: [], keptNames: [] };
+  const built = buildLogicGraph(expanded.source);
   diagnostics.push(...built.diagnostics);
-  if (!built.value) return { source: parsed.value, diagnostics, stateNames: [] };
+  if (!built.value) return { source: parsed.value, diagnostics, stateNames: [], keptNames: [] };
   const g = built.value;
-  const loops = analyzeLoops(g);
-  const stateNames = loops.cuts.map((c) => g.nodes[c]!.name!);
-  if (stateNames.length) {
-    const first = g.nodes[loops.cuts[0]!]!;
-    diagnostics.push(
-      diag(
-        "GW3001",
-        `the design stores state: ${loops.groups.length} feedback loop${loops.groups.length > 1 ? "s" : ""}, kept as written; state signal${stateNames.length > 1 ? "s" : ""}: ${stateNames.join(", ")}`,
-        first.span ? { file, span: first.span } : { file },
-      ),
-    );
-  }
-  return { source: parsed.value, graph: g, stateNames, diagnostics };
+  const state = analyzeState(parsed.value, g, expanded.elements, expanded.keptNames);
+  diagnostics.push(...state.diagnostics);
+  return { source: parsed.value, graph: g, stateNames: state.stateNames, keptNames: state.keptNames, state, diagnostics };
 }

@@ -1,20 +1,35 @@
 // The whole job as one pure function: source text and options in; the files of a run, the
 // intermediate results and the diagnostics out. Nothing here touches the file system.
 import { diag, hasErrors, type Diagnostic } from "../diagnostics/index.js";
-import { checkEquivalence, type EquivalenceResult, type LogicGraph } from "../logic/index.js";
-import { optimizeLogic } from "../optimize/index.js";
-import { cellsToLogic, mapToCells, type CellChoice, type CellNetlist } from "../map/index.js";
+import { checkEquivalence, dontCareMask, type EquivalenceResult, type LogicGraph } from "../logic/index.js";
+import { optimizeDesign, type OptimizationReport, type OptLevel } from "../optimize/index.js";
+import { cellsToLogic, dtlCostModel, mapToCells, tallyParts, type CellChoice, type CellNetlist, type CostModel } from "../map/index.js";
 import { sizeDesign } from "../electrical/size.js";
 import type { SizedDesign, SizingOptions } from "../electrical/types.js";
-import { emitDesign, makeStimulus, type OutputFile } from "../emit/index.js";
+import { emitDesign, type OutputFile } from "../emit/index.js";
 import type { Stimulus } from "../emit/stimulus.js";
 import { readDesign } from "./front.js";
+import { checkFeedbackHazards, planTestbench } from "../sequential/plan.js";
+import type { StateAnalysis } from "../sequential/state.js";
+import type { InitialState } from "../sequential/initial.js";
+import type { SequentialTiming } from "../sequential/timing.js";
+import type { StaticHazard } from "../logic/hazards.js";
 import { TOOL } from "./tool.js";
 
 export interface SynthesisOptions {
   top?: string;
   maxFanin: number;
   cells: CellChoice;
+  /** True when the user chose the cell families (then no automatic fallback to NAND only). */
+  cellsGiven?: boolean;
+  /** Optimization level, 0 to 2 (default 2; src/optimize/index.ts). */
+  opt?: OptLevel;
+  /** Cost model the optimizer and the mapper price with (default DTL parts, src/map/cost.ts). */
+  costModel?: CostModel;
+  /** Most loads on one net; more are buffered or their driver duplicated (default 8; 0: none). */
+  maxFanout?: number;
+  /** Tie open-collector outputs (wired-AND) where it saves parts (default off). */
+  wiredAnd?: boolean;
   sizing: SizingOptions;
   /** Inputs up to which the testbench walks every combination (default 10). */
   exhaustiveLimit?: number;
@@ -23,12 +38,30 @@ export interface SynthesisOptions {
   seed?: number;
   /** The command line to print in the files' headers. */
   commandLine: string;
+  /** Testbench step length instead of the one derived from the timing (a clock period is four
+   *  steps in a clocked testbench). */
+  stepSeconds?: number;
+  /** Most and fewest clock cycles of a clocked testbench (default 256 and 8). */
+  maxClockCycles?: number;
+  minClockCycles?: number;
 }
 
 export interface Synthesis {
   graph?: LogicGraph;
   stateNames: string[];
+  /** Names kept as nets through optimization and mapping (state signals, state-element nets). */
+  keptNames?: string[];
+  /** Loops, state elements, initial values, clock (src/sequential/state.ts). */
+  state?: StateAnalysis;
+  /** The state the testbench and the logic's simulation start from. */
+  initial?: InitialState;
+  /** Clock-to-output, setup and hold of each state element, and the clock limit. */
+  timing?: SequentialTiming;
+  /** Static hazards found in the logic feeding loops, as built. */
+  hazards?: StaticHazard[];
   netlist?: CellNetlist;
+  /** Parts before (the logic as written, mapped directly) and after optimization. */
+  optimizationReport?: OptimizationReport;
   equivalence?: EquivalenceResult;
   design?: SizedDesign;
   stimulus?: Stimulus;
@@ -64,8 +97,17 @@ export function synthesize(text: string, file: string, opts: SynthesisOptions): 
     out.graph = g;
     out.stateNames = front.stateNames;
     const stateNames = front.stateNames;
+    // State signals and the nets of built-in state elements stay nets of their own.
+    const keptNames = front.keptNames;
+    out.keptNames = keptNames;
+    if (front.state) out.state = front.state;
 
-    const optimized = optimizeLogic(g, { stateNames, maxFanin: opts.maxFanin });
+    const costModel = opts.costModel ?? dtlCostModel();
+    const mapExtras = { costModel, ...(opts.maxFanout !== undefined ? { maxFanout: opts.maxFanout } : {}), wiredAnd: !!opts.wiredAnd };
+    const opt = optimizeDesign(g, { stateNames: keptNames, maxFanin: opts.maxFanin, level: opts.opt ?? 2, cells: opts.cells, ...mapExtras });
+    diagnostics.push(...opt.diagnostics);
+    out.optimizationReport = opt.report;
+    const optimized = opt.graph;
     for (const o of optimized.outputs) {
       const op = optimized.nodes[o.node]!.op;
       if (op === "const0" || op === "const1") {
@@ -77,14 +119,36 @@ export function synthesize(text: string, file: string, opts: SynthesisOptions): 
         );
       }
     }
-    const mapped = mapToCells(optimized, { stateNames, maxFanin: opts.maxFanin, cells: opts.cells });
+    // Map and size. When the mixed mapping's NOR cells cannot be sized (diode-OR inputs share
+    // their driver's current, so heavy fan-out defeats them), map again with NAND cells only,
+    // unless the user chose the cell families.
+    const attempt = (cells: CellChoice) => {
+      // Other families than the optimizer priced for: optimize again for them.
+      const again = cells === opts.cells ? undefined : optimizeDesign(g, { stateNames: keptNames, maxFanin: opts.maxFanin, level: opts.opt ?? 2, cells, ...mapExtras });
+      const m = mapToCells(again?.graph ?? optimized, { stateNames: keptNames, maxFanin: opts.maxFanin, cells, ...mapExtras });
+      return { mapped: m, sized: m.value ? sizeDesign(m.value, opts.sizing) : undefined, report: again?.report ?? opt.report };
+    };
+    let { mapped, sized, report } = attempt(opts.cells);
+    const fallbackNotes: string[] = [];
+    if (opts.cells === "mixed" && !opts.cellsGiven && sized && !sized.value && sized.diagnostics.some((d) => d.code === "GW5001")) {
+      const retry = attempt("nand");
+      if (retry.sized?.value) {
+        const why = sized.diagnostics.find((d) => d.code === "GW5001")!.message;
+        fallbackNotes.push(`The mixed NAND/NOR mapping could not be sized (${why}); the design was mapped with NAND cells only.`);
+        ({ mapped, sized, report } = retry);
+      }
+    }
     diagnostics.push(...mapped.diagnostics);
     if (!mapped.value) return out;
     const netlist = mapped.value;
     out.netlist = netlist;
+    out.optimizationReport = { ...report, after: tallyParts(netlist, costModel) };
 
     // Nothing is written unless the cells compute the source's logic.
-    const eq = checkEquivalence(g, cellsToLogic(netlist), { stateNames });
+    const builtLogic = cellsToLogic(netlist);
+    // Loop state signals are the free variables of the check; the other kept nets (inside state
+    // elements) are logic like any other, which mapping may share.
+    const eq = checkEquivalence(g, builtLogic, { stateNames });
     out.equivalence = eq;
     if (!eq.equivalent) {
       const why = eq.problem ?? (eq.counterexample ? `${eq.counterexample.kind} '${eq.counterexample.name}' is ${eq.counterexample.actual} where the source gives ${eq.counterexample.expected} for ${Object.entries(eq.counterexample.assignment).map(([k, v]) => `${k}=${v}`).join(" ")}` : "unknown");
@@ -98,22 +162,36 @@ export function synthesize(text: string, file: string, opts: SynthesisOptions): 
       );
     }
 
-    const sized = sizeDesign(netlist, opts.sizing);
-    diagnostics.push(...sized.diagnostics);
-    if (!sized.value || hasErrors(sized.diagnostics)) return out;
+    const hazards = checkFeedbackHazards(g, builtLogic, front.state, keptNames);
+    out.hazards = hazards.hazards;
+    diagnostics.push(...hazards.diagnostics);
+
+    diagnostics.push(...(sized?.diagnostics ?? []));
+    if (!sized?.value || hasErrors(diagnostics)) return out;
     const design = sized.value;
     out.design = design;
 
-    const stimOpts: Parameters<typeof makeStimulus>[1] = { sequential: stateNames.length > 0 };
-    if (opts.exhaustiveLimit !== undefined) stimOpts.exhaustiveLimit = opts.exhaustiveLimit;
-    if (opts.randomVectors !== undefined) stimOpts.randomCount = opts.randomVectors;
-    if (opts.seed !== undefined) stimOpts.seed = opts.seed;
-    const stimulus = makeStimulus(g, stimOpts);
+    // Initial state, clocked or stepped walk, step length and the state elements' timing.
+    const planOpts: Parameters<typeof planTestbench>[4] = { baseStepSeconds: stepSecondsFor(design) };
+    if (opts.exhaustiveLimit !== undefined) planOpts.exhaustiveLimit = opts.exhaustiveLimit;
+    if (opts.randomVectors !== undefined) planOpts.randomVectors = opts.randomVectors;
+    if (opts.seed !== undefined) planOpts.seed = opts.seed;
+    if (opts.stepSeconds !== undefined) planOpts.stepSeconds = opts.stepSeconds;
+    if (opts.maxClockCycles !== undefined) planOpts.maxCycles = opts.maxClockCycles;
+    if (opts.minClockCycles !== undefined) planOpts.minCycles = opts.minClockCycles;
+    const plan = planTestbench(g, design, front.state, stateNames, planOpts);
+    diagnostics.push(...plan.diagnostics);
+    if (plan.initial) out.initial = plan.initial;
+    if (plan.timing) out.timing = plan.timing;
+    const stimulus = plan.stimulus;
+    // Outputs at their don't-care points may take either value: not checked there.
+    const free = dontCareMask(g, keptNames, stimulus.vectors);
+    if (free) stimulus.expected = stimulus.expected.map((row, i) => row.map((x, k) => (free[i]![k] ? "X" : x)));
     out.stimulus = stimulus;
-    const stepSeconds = stepSecondsFor(design);
+    const stepSeconds = plan.stepSeconds;
     out.stepSeconds = stepSeconds;
-    const notes: string[] = [];
-    if (!stimulus.exhaustive) notes.push(`The testbench uses ${stimulus.vectors.length} seeded random vectors (seed ${stimulus.seed}), not every combination of the ${g.inputs.length} inputs.`);
+    const notes: string[] = [...fallbackNotes, ...plan.notes];
+    if (!stimulus.exhaustive && !stimulus.clock) notes.push(`The testbench uses ${stimulus.vectors.length} seeded random vectors (seed ${stimulus.seed}), not every combination of the ${g.inputs.length} inputs.`);
     out.files = emitDesign({
       tool: TOOL,
       commandLine: opts.commandLine,
@@ -125,6 +203,8 @@ export function synthesize(text: string, file: string, opts: SynthesisOptions): 
       stimulus,
       stepSeconds,
       notes,
+      ...(front.state ? { state: front.state } : {}),
+      ...(plan.timing ? { timing: plan.timing } : {}),
     });
     return out;
   } catch (e) {

@@ -21,6 +21,24 @@ export interface Assignment {
   span: Span;
 }
 
+/**
+ * Points where a signal's value is free (don't-cares), written as cubes over input variables.
+ * Made by minterm functions (`d(...)`) and truth tables (`-` outputs); the assignment of the
+ * same target gives the value as written, which an optimizer may change at these points.
+ */
+export interface DontCareSource {
+  /** The assigned signal whose value is free at these points. */
+  target: string;
+  targetSpan: Span;
+  /** Input variables the cubes are written over, in order (first = leftmost character). */
+  variables: Declaration[];
+  /** One character per variable: '0', '1' or '-' (either). Disjoint from the points the
+   *  source specifies. */
+  cubes: string[];
+  /** Span of the statement that gave them. */
+  span: Span;
+}
+
 export interface DesignSource {
   /** Path of the file as the user gave it (used in diagnostics). */
   file: string;
@@ -33,6 +51,35 @@ export interface DesignSource {
   assignments: Assignment[];
   /** Language the design came from. */
   language: "equations" | "verilog";
+  /** Don't-cares of assigned signals (equation files: minterm functions and truth tables).
+   *  Absent when there are none. */
+  dontCares?: DontCareSource[];
+  /** Built-in state elements (`q = dff(d, clk);`), expanded into assignments by src/sequential. */
+  stateElements?: StateElementCall[];
+  /** `init` declarations: starting values of state signals. */
+  initials?: InitialValue[];
+  /** Signals named in `oscillator` declarations: a loop through one of them is meant to oscillate. */
+  oscillators?: Declaration[];
+}
+
+/** A built-in state element, written `q = dff(d, clk);` in equation files. The function name
+ *  and the number of arguments are checked when reading; src/sequential expands it. */
+export interface StateElementCall {
+  target: string;
+  targetSpan: Span;
+  /** Function name as written (`dff`, `dlatch`). */
+  fn: string;
+  fnSpan: Span;
+  args: Expr[];
+  /** Span of the whole statement. */
+  span: Span;
+}
+
+/** `init q = 0;`: the value a state signal starts with. */
+export interface InitialValue {
+  name: string;
+  value: 0 | 1;
+  span: Span;
 }
 
 // Builders used by grammar postprocessors, so that the grammars build plain typed objects.

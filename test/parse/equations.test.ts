@@ -342,7 +342,8 @@ describe("parseEquations: mistakes", () => {
   });
 
   it("a character no token matches (GW1001), shown in the message", () => {
-    const text = "input a;\ny = a @ b;\nz = a - b;";
+    // ('-' is a token since truth tables and minterm ranges; '%' still matches none.)
+    const text = "input a;\ny = a @ b;\nz = a % b;";
     const ds = errors(text);
     expect(where(text, ds)).toEqual(["GW1001@2:7", "GW1001@3:7"]);
     expect(ds[0]!.message).toBe("unexpected character '@' (U+0040)");
@@ -577,5 +578,144 @@ describe("parseEquations: properties", () => {
       }),
       { numRuns: 500 },
     );
+  });
+});
+
+// ---- minterm functions and truth tables (issue 4) --------------------------------------------------
+// Sources: the minterm notation F(a,b,c) = Σm(1,3,5) + d(7) with a as the most significant
+// bit, maxterms ΠM(...), and truth tables with '-' for don't-cares are the textbook conventions
+// (e.g. Mano, Digital Design; common practice). The syntax is the project's own (header of
+// grammars/equations.ne).
+
+/** The don't-care cubes of a target, as text. */
+function dcOf(v: DesignSource, target: string): string[] | undefined {
+  return v.dontCares?.find((d) => d.target === target)?.cubes;
+}
+
+/** The value of a target's expression at each point of its variables (first variable = MSB). */
+function valuesOf(v: DesignSource, target: string, vars: string[]): string {
+  const a = v.assignments.find((x) => x.target === target)!;
+  let out = "";
+  for (let m = 0; m < 1 << vars.length; m++) {
+    const env: Record<string, boolean> = {};
+    vars.forEach((n, i) => (env[n] = ((m >> (vars.length - 1 - i)) & 1) === 1));
+    out += evaluate(a.expr, env) ? "1" : "0";
+  }
+  return out;
+}
+
+describe("parseEquations: minterm functions", () => {
+  it("reads Σm(...) + d(...) in every spelling, as the canonical sum with the don't-cares beside it", () => {
+    for (const rhs of ["Σm(1, 3, 5) + d(7)", "∑m(1,3,5)+d(7)", "sum m(1, 3, 5) + d(7)", "m(1, 3, 5) d(7)", "m(1,3) + m(5) | D(7)", "m(1, 3, 5) dc(7)", "SUM m(1-1, 3, 5) d(7-7)"]) {
+      const v = ok(`input a, b, c; output F;\nF(a, b, c) = ${rhs};`);
+      expect(valuesOf(v, "F", ["a", "b", "c"]), rhs).toBe("01010100");
+      expect(dcOf(v, "F"), rhs).toEqual(["111"]);
+      expect(v.dontCares![0]!.variables.map((d) => d.name)).toEqual(["a", "b", "c"]);
+    }
+  });
+
+  it("reads maxterms ΠM(...) as the canonical product, ranges, and empty groups", () => {
+    const v = ok("input a, b, c; output G, H, Z;\nG(a, b, c) = ΠM(0, 2, 4) * d(7);\nH(a, b, c) = prod M(0-3);\nZ(a, b) = m();");
+    expect(valuesOf(v, "G", ["a", "b", "c"])).toBe("01010111");
+    expect(dcOf(v, "G")).toEqual(["111"]);
+    expect(valuesOf(v, "H", ["a", "b", "c"])).toBe("00001111");
+    expect(valuesOf(v, "Z", ["a", "b"])).toBe("0000");
+    expect(v.dontCares!.length).toBe(1);
+  });
+
+  it("accepts the variables' declarations after the function, and gives the statement's spans", () => {
+    const text = "output F;\nF(x, y) = m(3);\ninput x, y;";
+    const v = ok(text);
+    const a = v.assignments[0]!;
+    expect(slice(text, a.targetSpan)).toBe("F");
+    expect(slice(text, a.span)).toBe("F(x, y) = m(3);");
+    expect(valuesOf(v, "F", ["x", "y"])).toBe("0001");
+  });
+
+  it("reports bad minterm lists with codes and positions", () => {
+    const cases: [string, string[], string?][] = [
+      ["input a, b, c; output F;\nF(a, b, c) = m(1, 8);", ["GW1010@2:19"], "minterm 8 is out of range: 'F' has 3 variables, so its minterms are 0 to 7"],
+      ["input a, b; output F;\nF(a, b) = m(1, 2, 1);", ["GW1011@2:19"], "minterm 1 is listed twice"],
+      ["input a, b; output F;\nF(a, b) = m(1, 2) + d(2);", ["GW1012@2:23"], "minterm 2 is both in m(...) and in d(...)"],
+      ["input a, b; output F;\nF(a, b) = m(1) + x(2);", ["GW1013@2:18"], "'x' is not a group of a minterm function"],
+      ["input a, b; output F;\nF(a, b) = m(1) + M(2);", ["GW1013@2:18"]],
+      ["input a, b; output F;\nF(a, b) = Σ M(2);", ["GW1013@2:13"]],
+      ["input a, b; output F;\nF(a, b) = total m(2);", ["GW1013@2:11"]],
+      ["input a, b; output F;\nF(a, b) = m(3-1);", ["GW1010@2:13"], "the range 3-1 runs backwards"],
+      ["input a, b; output F;\nF(a, b) = m(0x2);", ["GW1010@2:13"], "'0x2' is not a minterm number"],
+      ["input a; output F;\nF(a, q) = m(1);", ["GW2016@2:6"], "'q' is not a declared input; the variables of a function or table must be inputs"],
+      ["input a; output F, q;\nF(a, q) = m(1);", ["GW2016@2:6"]],
+      ["input a; output F;\nF(a, a) = m(1);", ["GW2017@2:6"], "'a' is listed twice"],
+      ["input a; output F;\nF(a) = m(1)\ny = a;", ["GW1002@3:1"], "expected ';' after the function, found 'y'"],
+    ];
+    for (const [text, expected, message] of cases) {
+      const ds = errors(text);
+      expect(where(text, ds), text).toEqual(expected);
+      if (message) expect(ds[0]!.message).toBe(message);
+    }
+  });
+
+  it("limits the number of variables (GW1017)", () => {
+    const vars = Array.from({ length: 25 }, (_, i) => `x${i}`);
+    const text = `input ${vars.join(", ")}; output F;\nF(${vars.join(", ")}) = m(1);`;
+    expect(errors(text).map((d) => d.code)).toEqual(["GW1017"]);
+  });
+});
+
+describe("parseEquations: truth tables", () => {
+  const HALF = "input a, b; output s, c;\ntable a, b : s, c {\n  00 : 0 0;\n  01 : 1 0;\n  10 : 1 0;\n  11 : 0 1;\n}\n";
+
+  it("reads a truth table into one assignment per output", () => {
+    const v = ok(HALF);
+    expect(v.assignments.map((a) => a.target)).toEqual(["s", "c"]);
+    expect(valuesOf(v, "s", ["a", "b"])).toBe("0110");
+    expect(valuesOf(v, "c", ["a", "b"])).toBe("0001");
+    expect(v.dontCares).toBeUndefined();
+    expect(slice(HALF, v.assignments[0]!.targetSpan)).toBe("s");
+    expect(slice(HALF, v.assignments[1]!.span).startsWith("table a, b")).toBe(true);
+  });
+
+  it("takes '-' outputs as don't-cares, '-' inputs as both values, and unlisted rows as 0", () => {
+    const text = "input a, b, c; output y, z;\ntable a, b, c : y, z {\n  0 0 0 : 1 -;\n  1 - - : 0 1;\n  01- : - 0;\n  011 : 1 -;\n};";
+    const v = ok(text);
+    // y: 000 → 1, 1xx → 0, 010 → free, 011 → 1, 001 → 0 (unlisted).
+    expect(valuesOf(v, "y", ["a", "b", "c"])).toBe("10010000");
+    expect(dcOf(v, "y")).toEqual(["010"]);
+    // z: 000 free, 1xx → 1, 01x → 0; the '-' of row 4 yields to row 3's 0.
+    expect(valuesOf(v, "z", ["a", "b", "c"])).toBe("00001111");
+    expect(dcOf(v, "z")).toEqual(["000"]);
+  });
+
+  it("reads an empty table, a table after its declarations' use, and the statement after it", () => {
+    const v = ok("output y;\ntable a : y { }\nx = a;\ninput a;\noutput x;");
+    expect(valuesOf(v, "y", ["a"])).toBe("00");
+    expect(v.assignments.map((a) => a.target)).toEqual(["y", "x"]);
+  });
+
+  it("reports bad tables with codes and positions", () => {
+    const cases: [string, string[], string?][] = [
+      ["input a, b; output y;\ntable a, b : y {\n  0 : 1;\n}", ["GW1014@3:3"], "this row gives 1 input value; the table has 2 inputs (a, b)"],
+      ["input a, b; output y;\ntable a, b : y {\n  00 : 1 1;\n}", ["GW1014@3:8"], "this row gives 2 output values; the table has 1 output (y)"],
+      ["input a, b; output y;\ntable a, b : y {\n  02 : 1;\n}", ["GW1015@3:3"], "'02' is not a truth-table value"],
+      ["input a, b; output y;\ntable a, b : y {\n  0- : 1;\n  01 : 0;\n}", ["GW1016@4:3"], "rows 1 and 2 of the table disagree on 'y' at a=0 b=1"],
+      ["input a, b; output y;\ntable a, b : y {\n  11 : 1;\n  11 : 0;\n}", ["GW1016@4:3"]],
+      ["input a; output y;\ntable a, q : y {\n  00 : 1;\n}", ["GW2016@2:10"]],
+      ["input a; output y;\ntable a : a {\n  0 : 1;\n}", ["GW2017@2:11"]],
+      ["input a, b; output y;\ntable a, b : y {\n  00 : 1;\ninput c;", ["GW1002@4:1"], "expected '}' to close the table before 'input'"],
+      ["input a, b; output y;\ntable a, b : y {\n  00 : 1\n}", ["GW1002@4:1"]],
+      ["input a, b; output y;\ntable a, b : y {\n  00 : 1;", ["GW1003@3:10"]],
+      ["input a, b; output y;\ntable a, b y {\n  00 : 1;\n}", ["GW1002@2:12"]],
+    ];
+    for (const [text, expected, message] of cases) {
+      const ds = errors(text);
+      expect(where(text, ds), text).toEqual(expected);
+      if (message) expect(ds[0]!.message).toBe(message);
+    }
+  });
+
+  it("'table' is a keyword; the errors after a table do not hide the next statement's", () => {
+    expect(errors("table = a;").map((d) => d.code)).toEqual(["GW1002"]);
+    const text = "input a; output y, z;\ntable a : y {\n  2 : 1;\n}\nz = a &;";
+    expect(where(text, errors(text))).toEqual(["GW1015@3:3", "GW1002@5:8"]);
   });
 });
