@@ -1,4 +1,7 @@
 export * from "./types.js";
-export { mapToCells, partCost, type MapOptions, type CellChoice } from "./map.js";
+export { mapToCells, partCost, DEFAULT_MAX_FANOUT, type MapOptions, type CellChoice } from "./map.js";
 export { cellsToLogic } from "./to-logic.js";
 export { limitFanin } from "./fanin.js";
+export * from "./cost.js";
+export { legalizeFanout, type FanoutResult } from "./fanout.js";
+export { applyWiredAnd, type WiredResult } from "./wired.js";

@@ -1,29 +1,109 @@
 // Technology mapping onto DTL cells: every AND/OR/XOR/NOT of the optimized logic graph becomes
 // NAND-k and NOR-k cells, choosing per node and per polarity the cheaper realization by
-// dynamic programming over a part-count cost, with inverters shared. Loops are kept exactly as
+// dynamic programming over the cost model, with inverters shared. Loops are kept exactly as
 // written: each state signal becomes a net of the same name driven by the cell computing it.
+//
+// With mixed cells the mapping is made three ways, mixed per node, NAND only and NOR only, and
+// the cheapest netlist (after wired-AND and fan-out legalization) is kept: the per-node choice
+// counts shared logic once per reader, so a single-family mapping sometimes comes out cheaper
+// for a whole design.
 import { diag, type Diagnostic, type StageResult } from "../diagnostics/index.js";
 import type { LogicGraph } from "../logic/graph.js";
 import { evaluationOrder } from "../logic/loops.js";
 import type { CellFunction, CellInstance, CellNetlist, Net, NetDriver } from "./types.js";
 import { limitFanin } from "./fanin.js";
+import { dtlCostModel, netlistCost, type CostModel } from "./cost.js";
+import { legalizeFanout } from "./fanout.js";
+import { applyWiredAnd } from "./wired.js";
 
 export type CellChoice = "mixed" | "nand" | "nor";
+
+/** Loads one net may drive unless told otherwise: DTL families of the 1960s quoted a fan-out of
+ *  about 8 (REFERENCES.md, from memory), and the basic gate of Millman & Halkias ex. 6-5 manages
+ *  11 at a gain of 30 (derived), so 8 leaves margin. */
+export const DEFAULT_MAX_FANOUT = 8;
+
+/** Above this many nodes (after fan-in splitting) mixed cells are mapped once, per node, without
+ *  the single-family trials: they triple the time of the mapping. */
+export const FAMILY_TRIAL_MAX_NODES = 3000;
 
 export interface MapOptions {
   stateNames: readonly string[];
   maxFanin: number;
   /** Which cell functions may be used. `nand` and `nor` allow only that family (and its inverter). */
   cells?: CellChoice;
-  /** Cost of one cell of a function and fan-in (default: part-count weights, see `partCost`). */
+  /** Cost of one cell of a function and fan-in (default: the cost model's). */
   cellCost?: (fn: CellFunction, fanin: number) => number;
+  /** Cost model for choosing between realizations (default: DTL parts, `dtlCostModel()`). */
+  costModel?: CostModel;
+  /** Most loads on one net (default DEFAULT_MAX_FANOUT; 0: no limit). */
+  maxFanout?: number;
+  /** Tie open-collector outputs together (wired-AND) where it saves parts (default off). */
+  wiredAnd?: boolean;
 }
 
-/** Default cost: a transistor counts as four parts, a diode or resistor as one (our weighting).
- *  Basic NAND-k: k input diodes, two level-shift diodes, R_P, R_B, R_C, one transistor.
- *  Basic NOR-k: k input diodes, one level-shift diode, R_B, R_C, one transistor. */
+/** Default cell cost: the DTL part model with its default weights (see src/map/cost.ts). */
 export function partCost(fn: CellFunction, fanin: number): number {
-  return fn === "nand" ? 4 + fanin + 2 + 3 : 4 + fanin + 1 + 2;
+  return dtlCostModel().cellCost(fn, fanin);
+}
+
+export function mapToCells(source: LogicGraph, opts: MapOptions): StageResult<CellNetlist> {
+  const diagnostics: Diagnostic[] = [];
+  if (!Number.isInteger(opts.maxFanin) || opts.maxFanin < 2) {
+    diagnostics.push(
+      diag("GW4001", `the fan-in limit must be at least 2 (got ${opts.maxFanin})`, undefined, {
+        hint: "two-input cells are the smallest that can build any logic",
+      }),
+    );
+    return { diagnostics };
+  }
+  const maxFanout = opts.maxFanout ?? DEFAULT_MAX_FANOUT;
+  if (!Number.isInteger(maxFanout) || maxFanout < 0 || maxFanout === 1) {
+    diagnostics.push(
+      diag("GW4002", `the fan-out limit must be at least 2 (got ${maxFanout}); 0 means no limit`, undefined, {
+        hint: "a buffer drives the loads it takes over, so a limit of 1 could never be met",
+      }),
+    );
+    return { diagnostics };
+  }
+  const baseModel = opts.costModel ?? dtlCostModel();
+  const model: CostModel = opts.cellCost ? { ...baseModel, cellCost: opts.cellCost } : baseModel;
+  const allow = opts.cells ?? "mixed";
+  const g = limitFanin(source, opts.stateNames, opts.maxFanin);
+  const families: CellChoice[] = allow === "mixed" ? (g.nodes.length <= FAMILY_TRIAL_MAX_NODES ? ["mixed", "nand", "nor"] : ["mixed"]) : [allow];
+  let best: { netlist: CellNetlist; cost: number; tied: number; removed: number; duplicated: number; buffers: number; netsSplit: number } | undefined;
+  for (const family of families) {
+    let netlist = mapFamily(g, source, opts, family, model);
+    let tied = 0;
+    let removed = 0;
+    if (opts.wiredAnd) {
+      const w = applyWiredAnd(netlist, { model, allowNand: allow !== "nor", allowNor: allow !== "nand" });
+      netlist = w.netlist;
+      tied = w.tied;
+      removed = w.removed;
+    }
+    const inverter: CellFunction = allow === "nand" ? "nand" : allow === "nor" ? "nor" : model.cellCost("nor", 1) <= model.cellCost("nand", 1) ? "nor" : "nand";
+    const f = maxFanout > 0 ? legalizeFanout(netlist, { maxFanout, model, inverter }) : { netlist, duplicated: 0, buffers: 0, netsSplit: 0 };
+    const cost = netlistCost(f.netlist, model);
+    if (!best || cost < best.cost) best = { netlist: f.netlist, cost, tied, removed, duplicated: f.duplicated, buffers: f.buffers, netsSplit: f.netsSplit };
+  }
+  const b = best!;
+  if (b.netsSplit) {
+    diagnostics.push(
+      diag(
+        "GW4003",
+        `fan-out limited to ${maxFanout} loads a net: ${b.netsSplit} net${b.netsSplit > 1 ? "s" : ""} split, ${b.duplicated} cell${b.duplicated === 1 ? "" : "s"} duplicated, ${b.buffers} buffer${b.buffers === 1 ? "" : "s"} (two inverters each) added`,
+        { file: source.file ?? source.name },
+        { hint: "set the limit with --max-fanout (0: no limit)" },
+      ),
+    );
+  }
+  if (b.tied) {
+    diagnostics.push(
+      diag("GW4004", `wired-AND: ${b.tied} cell output${b.tied > 1 ? "s" : ""} tied onto another cell's collector resistor${b.removed ? `, ${b.removed} inverters saved` : ""}`, { file: source.file ?? source.name }),
+    );
+  }
+  return { value: b.netlist, diagnostics };
 }
 
 type Pol = 0 | 1; // 0: the node's value, 1: its complement
@@ -36,19 +116,9 @@ type Choice =
   | { kind: "inv"; fn: CellFunction }
   | { kind: "xor4"; fn: CellFunction; a: number; b: number };
 
-export function mapToCells(source: LogicGraph, opts: MapOptions): StageResult<CellNetlist> {
-  const diagnostics: Diagnostic[] = [];
-  if (!Number.isInteger(opts.maxFanin) || opts.maxFanin < 2) {
-    diagnostics.push(
-      diag("GW4001", `the fan-in limit must be at least 2 (got ${opts.maxFanin})`, undefined, {
-        hint: "two-input cells are the smallest that can build any logic",
-      }),
-    );
-    return { diagnostics };
-  }
-  const g = limitFanin(source, opts.stateNames, opts.maxFanin);
-  const cost = opts.cellCost ?? partCost;
-  const allow = opts.cells ?? "mixed";
+/** One mapping of the fan-in-limited graph `g` with the given families. */
+function mapFamily(g: LogicGraph, source: LogicGraph, opts: MapOptions, allow: CellChoice, model: CostModel): CellNetlist {
+  const cost = model.cellCost;
   const nandOk = allow !== "nor";
   const norOk = allow !== "nand";
   const stateSet = new Set(opts.stateNames);
@@ -339,5 +409,5 @@ export function mapToCells(source: LogicGraph, opts: MapOptions): StageResult<Ce
     maxFanin: opts.maxFanin,
   };
   void netOfNode;
-  return { value: netlist, diagnostics };
+  return netlist;
 }

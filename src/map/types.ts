@@ -13,6 +13,9 @@ export interface CellInstance {
   inputs: number[];
   /** Net index of the output. */
   output: number;
+  /** Wired-AND (opt-in): this cell's open-collector output is tied onto a net whose driver
+   *  cell (`Net.driver`) holds the one collector resistor; this cell has no R_C of its own. */
+  tiedOutput?: boolean;
 }
 
 export type NetDriver =
@@ -35,6 +38,10 @@ export interface Net {
   loads: NetLoad[];
   /** Index in CellNetlist.outputs when this net is a primary output. */
   outputPort?: number;
+  /** Wired-AND (opt-in): further cells whose outputs are tied onto this net (each with
+   *  `tiedOutput`). The net is low when any of its cells pulls it low: its value is the AND of
+   *  the driver's and these cells' outputs, and it has one collector resistor, the driver's. */
+  tiedCells?: number[];
 }
 
 export interface CellNetlist {
@@ -49,4 +56,6 @@ export interface CellNetlist {
   stateNets: number[];
   /** The fan-in limit the mapping honoured. */
   maxFanin: number;
+  /** The fan-out limit the mapping honoured (loads per net; absent: none). */
+  maxFanout?: number;
 }

@@ -3,6 +3,7 @@
 // pass rebuilds through it, so no pass can leave a trivially reducible node behind.
 import type { LogicGraph, LogicNode, LogicOp, Port } from "../logic/graph.js";
 import { evaluationOrder } from "../logic/loops.js";
+import { buildForm, type Form } from "./form.js";
 
 export class GraphBuilder {
   readonly nodes: LogicNode[] = [];
@@ -194,6 +195,85 @@ export function rebuild(
   });
   const out: LogicGraph = { name: g.name, nodes: b.nodes, inputs, outputs };
   if (g.file !== undefined) out.file = g.file;
+  if (g.dontCares) out.dontCares = g.dontCares;
+  return out;
+}
+
+/** A new construction for a node: a form over leaves that are nodes of the same graph. */
+export interface Replacement {
+  form: Form;
+  /** Node ids (of the graph being rebuilt) of the form's leaves 0, 1, ... */
+  leaves: readonly number[];
+}
+
+/**
+ * Rebuilds a graph through a GraphBuilder with some nodes built from new forms instead of
+ * their own operations. Each replacement must compute the same function as the node it
+ * replaces (or, for an output no logic reads, agree with it outside its don't-cares), and its
+ * leaves must not depend on the node. Only what outputs and state signals need is built; names
+ * are kept as annotations. A replacement of a state signal (a cut node) gives its next value.
+ */
+export function rebuildWith(g: LogicGraph, stateNames: readonly string[], replacements: ReadonlyMap<number, Replacement>): LogicGraph {
+  const b = new GraphBuilder();
+  const map = new Int32Array(g.nodes.length).fill(-1);
+  const stateSet = new Set(stateNames);
+  const cutIds: number[] = [];
+  g.nodes.forEach((n, id) => {
+    if (n.name !== undefined && stateSet.has(n.name) && n.op !== "input") cutIds.push(id);
+  });
+  for (const p of g.inputs) map[p.node] = b.input(p.name, g.nodes[p.node]!.span);
+  for (const id of cutIds) map[id] = b.placeholder(g.nodes[id]!.name!, g.nodes[id]!.span);
+  const deps = (id: number): readonly number[] => replacements.get(id)?.leaves ?? g.nodes[id]!.fanins;
+  // Depth-first, post-order, without recursion.
+  const state = new Uint8Array(g.nodes.length); // 0 new, 1 on the stack, 2 built
+  const build = (root: number) => {
+    if (map[root]! >= 0) return;
+    const stack: { id: number; i: number }[] = [{ id: root, i: 0 }];
+    state[root] = 1;
+    while (stack.length) {
+      const top = stack[stack.length - 1]!;
+      const ds = deps(top.id);
+      if (top.i < ds.length) {
+        const d = ds[top.i++]!;
+        if (map[d]! >= 0) continue;
+        if (state[d] === 1) throw new Error("rebuildWith: a replacement depends on the node it replaces");
+        state[d] = 1;
+        stack.push({ id: d, i: 0 });
+        continue;
+      }
+      stack.pop();
+      const id = top.id;
+      const n = g.nodes[id]!;
+      let r: number;
+      const rep = replacements.get(id);
+      if (rep) r = buildForm(b, rep.form, (v) => map[rep.leaves[v]!]!);
+      else if (n.op === "input") r = b.input(n.name ?? `in${id}`);
+      else r = b.op(n.op, n.fanins.map((f) => map[f]!));
+      map[id] = r;
+      state[id] = 2;
+      b.nameNode(r, n.name, n.span);
+    }
+  };
+  for (const p of g.outputs) build(p.node);
+  for (const id of cutIds) for (const f of deps(id)) build(f);
+  for (const id of cutIds) {
+    const n = g.nodes[id]!;
+    const rep = replacements.get(id);
+    if (rep) {
+      b.bind(map[id]!, buildForm(b, rep.form, (v) => map[rep.leaves[v]!]!));
+      continue;
+    }
+    const operands = n.fanins.map((f) => map[f]!);
+    b.bind(map[id]!, n.op === "buf" ? operands[0]! : b.op(n.op, operands));
+  }
+  const port = (p: Port): Port => {
+    const q: Port = { name: p.name, node: map[p.node]! };
+    if (p.span) q.span = p.span;
+    return q;
+  };
+  const out: LogicGraph = { name: g.name, nodes: b.nodes, inputs: g.inputs.map(port), outputs: g.outputs.map(port) };
+  if (g.file !== undefined) out.file = g.file;
+  if (g.dontCares) out.dontCares = g.dontCares;
   return out;
 }
 

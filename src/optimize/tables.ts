@@ -1,0 +1,128 @@
+// Facts about a logic graph that the passes share: the state signals (loop cut points), an
+// evaluation order, the readers of each node, the free variables each node depends on, and
+// truth tables of nodes over a chosen set of variables (bit-parallel simulation).
+import type { LogicGraph } from "../logic/graph.js";
+import { evaluationOrder } from "../logic/loops.js";
+import { enumerationWords, simulateWords } from "../logic/evaluate.js";
+import { DC, OFF, ON, type Spec } from "./sop/cube.js";
+
+export interface GraphFacts {
+  g: LogicGraph;
+  /** Node ids of the state signals. */
+  cuts: Set<number>;
+  /** Inputs and state signals: the free variables of every cone. */
+  free: Set<number>;
+  order: number[];
+  readers: number[][];
+}
+
+export function graphFacts(g: LogicGraph, stateNames: readonly string[]): GraphFacts {
+  const states = new Set(stateNames);
+  const cuts = new Set<number>();
+  g.nodes.forEach((n, id) => {
+    if (n.name !== undefined && states.has(n.name) && n.op !== "input") cuts.add(id);
+  });
+  const order = evaluationOrder(g, cuts);
+  if (!order) throw new Error("a loop is not broken at the state signals");
+  const free = new Set<number>(cuts);
+  for (const p of g.inputs) free.add(p.node);
+  const readers: number[][] = g.nodes.map(() => []);
+  g.nodes.forEach((n, id) => {
+    if (cuts.has(id)) return; // a state signal's operand is read at the next step, not now
+    for (const f of n.fanins) readers[f]!.push(id);
+  });
+  // A state signal's operand is read (by the state); count it so that it is never taken as
+  // unread.
+  for (const c of cuts) for (const f of g.nodes[c]!.fanins) readers[f]!.push(c);
+  return { g, cuts, free, order, readers };
+}
+
+/**
+ * The leaves a node depends on: free variables, and nodes of `stops` (other than the root
+ * itself), in ascending id order. Undefined when there are more than `limit`.
+ */
+export function supportOf(f: GraphFacts, root: number, stops?: ReadonlySet<number>, limit = Infinity): number[] | undefined {
+  const out: number[] = [];
+  const seen = new Set<number>();
+  const stack = f.free.has(root) ? [root] : [...f.g.nodes[root]!.fanins];
+  if (f.cuts.has(root)) stack.splice(0, stack.length, ...f.g.nodes[root]!.fanins);
+  while (stack.length) {
+    const id = stack.pop()!;
+    if (seen.has(id)) continue;
+    seen.add(id);
+    if (f.free.has(id) || (stops?.has(id) && id !== root)) {
+      out.push(id);
+      if (out.length > limit) return undefined;
+      continue;
+    }
+    const n = f.g.nodes[id]!;
+    if (n.op === "const0" || n.op === "const1") continue;
+    stack.push(...n.fanins);
+  }
+  return out.sort((a, b) => a - b);
+}
+
+/** Nodes whose value feeds a state signal (the logic inside loops and in front of them). */
+export function stateConeNodes(f: GraphFacts): Uint8Array {
+  const mark = new Uint8Array(f.g.nodes.length);
+  const stack: number[] = [];
+  for (const c of f.cuts) stack.push(...f.g.nodes[c]!.fanins);
+  while (stack.length) {
+    const id = stack.pop()!;
+    if (mark[id] || f.free.has(id)) continue;
+    mark[id] = 1;
+    stack.push(...f.g.nodes[id]!.fanins);
+  }
+  return mark;
+}
+
+/**
+ * Words of the given nodes with `vars` enumerated (variable i = vars[i]: point p has bit i),
+ * every other free variable at 0. `vars` may hold any nodes (they are forced); nodes between
+ * must not depend on free variables outside `vars` for the result to mean anything.
+ */
+export function simulateOver(f: GraphFacts, vars: readonly number[], roots: readonly number[]): { words: number; values: (Uint32Array | undefined)[] } {
+  const n = vars.length;
+  const words = Math.max(1, 2 ** Math.max(0, n - 5));
+  const forced = new Map<number, Uint32Array>();
+  vars.forEach((v, i) => forced.set(v, enumerationWords(i, words)));
+  const needed = new Uint8Array(f.g.nodes.length);
+  const stack: number[] = [];
+  // A state signal as a root stands for its next value: its operands are what is needed.
+  for (const r of roots) {
+    if (f.cuts.has(r)) stack.push(...f.g.nodes[r]!.fanins);
+    else stack.push(r);
+  }
+  while (stack.length) {
+    const id = stack.pop()!;
+    if (needed[id]) continue;
+    needed[id] = 1;
+    if (forced.has(id) || f.free.has(id)) continue;
+    stack.push(...f.g.nodes[id]!.fanins);
+  }
+  const zero = new Uint32Array(words);
+  for (const id of f.free) if (needed[id] && !forced.has(id)) forced.set(id, zero);
+  // Forced nodes need not come first in the order: simulateWords takes the given words as is.
+  const values = simulateWords(f.g, f.order, forced, words, needed);
+  return { words, values };
+}
+
+/** The words of a state signal's next value (its operation on its operands' words). */
+export function nextStateWords(f: GraphFacts, cut: number, values: (Uint32Array | undefined)[]): Uint32Array {
+  const n = f.g.nodes[cut]!;
+  if (n.op === "buf") return values[n.fanins[0]!]!;
+  throw new Error("nextStateWords: a state signal that is not a buffer");
+}
+
+/** A specification (ON/OFF) from words over n variables. */
+export function specOfWords(w: Uint32Array, n: number): Spec {
+  const size = 2 ** n;
+  const s = new Uint8Array(size);
+  for (let p = 0; p < size; p++) s[p] = (w[p >>> 5]! >>> (p & 31)) & 1 ? ON : OFF;
+  return s;
+}
+
+/** Marks the points where `dc` words have a 1 as DC. */
+export function markDontCares(spec: Spec, dc: Uint32Array): void {
+  for (let p = 0; p < spec.length; p++) if ((dc[p >>> 5]! >>> (p & 31)) & 1) spec[p] = DC;
+}
