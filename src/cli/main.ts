@@ -9,7 +9,11 @@ import { TOOL } from "../pipeline/tool.js";
 import { printDiagnostics } from "./print.js";
 import { readText, writeOutputs } from "./write.js";
 import { sizingOptionsFrom, type RawSizingArgs } from "./options.js";
+import { optimizeFlags, optimizeOptionsFrom, type RawOptimizeArgs } from "./optimize-options.js";
 import { eng } from "../emit/format.js";
+import { fileNamesOf } from "../emit/index.js";
+import { filesWithInputHash, synthesisHash } from "../verify/reuse.js";
+import { runVerify, verifyFlags, type VerifyArgs } from "./verify.js";
 
 export const EXIT = { ok: 0, design: 1, usage: 2 } as const;
 
@@ -43,13 +47,13 @@ function sizingFlags<T>(y: Argv<T>) {
 }
 
 function logicFlags<T>(y: Argv<T>) {
-  return y
+  return optimizeFlags(y)
     .option("top", { type: "string", describe: "top module of a Verilog file", defaultDescription: "the one no other module instantiates", group: "Logic:" })
     .option("max-fanin", { type: "number", describe: "most inputs on one cell", default: 8, group: "Logic:" })
     .option("cells", { choices: ["mixed", "nand", "nor"] as const, describe: "cell families to map onto", default: "mixed" as const, group: "Logic:" });
 }
 
-interface SynthArgs extends RawSizingArgs {
+interface SynthArgs extends RawSizingArgs, RawOptimizeArgs {
   file: string;
   out: string;
   top?: string;
@@ -71,6 +75,7 @@ export function runSynth(args: SynthArgs, argv: string[], io: Io): number {
   const text = read.text!;
   sources.set(args.file, text);
   const sizing = sizingOptionsFrom(args, diagnostics);
+  const optimize = optimizeOptionsFrom(args, diagnostics);
   if (args.parts !== undefined) {
     const p = readText(args.parts);
     if (p.error !== undefined) diagnostics.push(diag("GW6004", p.error));
@@ -91,7 +96,12 @@ export function runSynth(args: SynthArgs, argv: string[], io: Io): number {
   const opts: Parameters<typeof synthesize>[2] = {
     maxFanin: args["max-fanin"],
     cells: args.cells,
+    cellsGiven: argv.some((a) => a === "--cells" || a.startsWith("--cells=")),
     sizing,
+    opt: optimize.opt,
+    costModel: optimize.costModel,
+    maxFanout: optimize.maxFanout,
+    wiredAnd: optimize.wiredAnd,
     commandLine: ["gatewright", ...argv].join(" "),
   };
   if (args.top !== undefined) opts.top = args.top;
@@ -104,7 +114,9 @@ export function runSynth(args: SynthArgs, argv: string[], io: Io): number {
     if (!args.quiet) io.err.write(`${internal ? "internal error" : "nothing written"}: ${diagnostics.filter((d) => d.severity === "error").length} error(s)\n`);
     return EXIT.design;
   }
-  const w = writeOutputs(args.out, result.files, { force: !!args.force });
+  // The hash of source and options lets `verify` reuse these files as they are.
+  const hashed = filesWithInputHash(result.files, fileNamesOf(result.design!.netlist.name).json, synthesisHash(TOOL.version, text, opts as unknown as Record<string, unknown>));
+  const w = writeOutputs(args.out, hashed, { force: !!args.force });
   if (w.error) {
     printDiagnostics([diag(w.error.code, w.error.message)], sources, io.err);
     return EXIT.design;
@@ -122,7 +134,7 @@ export function runSynth(args: SynthArgs, argv: string[], io: Io): number {
 }
 
 export async function main(argv: string[], io: Io = processIo): Promise<number> {
-  let pending: (() => number) | undefined;
+  let pending: (() => number | Promise<number>) | undefined;
   let usageError: string | undefined;
   const parser = yargs(argv)
     .scriptName("gatewright")
@@ -143,7 +155,15 @@ export async function main(argv: string[], io: Io = processIo): Promise<number> 
         pending = () => runSynth(a as unknown as SynthArgs, argv, io);
       },
     )
-    .demandCommand(1, "say what to do: gatewright synth FILE (see --help)")
+    .command(
+      "verify <file>",
+      "synthesize (or reuse the outputs), simulate in ngspice at the nominal point and the corners, compare with the logic, measure and plot",
+      (y) => verifyFlags(sizingFlags(logicFlags(y))),
+      (a) => {
+        pending = () => runVerify(a as unknown as VerifyArgs, argv, io);
+      },
+    )
+    .demandCommand(1, "say what to do: gatewright synth FILE or gatewright verify FILE (see --help)")
     .strict()
     .recommendCommands()
     .version(TOOL.version)
@@ -178,6 +198,6 @@ export async function main(argv: string[], io: Io = processIo): Promise<number> 
     return EXIT.usage;
   }
   if (output) io.out.write(output.endsWith("\n") ? output : output + "\n");
-  return pending ? pending() : EXIT.ok;
+  return pending ? await pending() : EXIT.ok;
 }
 

@@ -18,6 +18,12 @@ export interface PlotThreshold {
   color?: string;
 }
 
+export interface PlotMarker {
+  x: number;
+  label: string;
+  color?: string;
+}
+
 export interface PlotPanel {
   series: PlotSeries[];
   /** Quantity name for the vertical axis title, e.g. "Voltage". */
@@ -25,6 +31,9 @@ export interface PlotPanel {
   /** Base unit, e.g. "V", "A", "W"; the prefix is chosen from the data. */
   yUnit: string;
   thresholds?: PlotThreshold[];
+  /** Vertical dashed lines at values of the horizontal axis (e.g. input thresholds on a
+   *  transfer curve), labelled at their top. */
+  markers?: PlotMarker[];
   /** Fixed vertical range; default the data's range with a margin. */
   yRange?: readonly [number, number];
   /** A compact panel for logic-level signals (inputs): lower, with few ticks. */
@@ -236,6 +245,17 @@ export function renderSvgPlot(plot: Plot): string {
           `<text x="${num(MARGIN_LEFT + plotW - 4)}" y="${num(y - 4)}" text-anchor="end" font-size="10" fill="${escapeXml(color)}">${escapeXml(t.label)}</text></g>`,
       );
     }
+
+    // Markers on the horizontal axis (under the series).
+    (panel.markers ?? []).forEach((m, mi) => {
+      if (!Number.isFinite(m.x) || m.x < xr.min || m.x > xr.max) return;
+      const x = xPx(m.x);
+      const color = m.color ?? "#777777";
+      out.push(
+        `<g class="marker" data-marker="${escapeXml(m.label)}"><line x1="${num(x)}" y1="${num(top)}" x2="${num(x)}" y2="${num(top + h)}" stroke="${escapeXml(color)}" stroke-width="1" stroke-dasharray="3 3"/>` +
+          `<text x="${num(x + 3)}" y="${num(top + h - 6 - 12 * mi)}" font-size="10" fill="${escapeXml(color)}">${escapeXml(m.label)}</text></g>`,
+      );
+    });
 
     // Series.
     out.push(`<g clip-path="url(#${clipId})">`);

@@ -5,7 +5,9 @@ import { sampleAt } from "../simulate/waveform.js";
 
 export interface SampleCheck {
   step: number;
+  /** The output (or state signal) sampled. */
   output: string;
+  kind: "output" | "state";
   timeSeconds: number;
   volts: number;
   expected: Tri;
@@ -32,6 +34,11 @@ export interface CompareInput {
   outputs: { name: string; node: string; values: Float64Array; levels: { vilVolts: number; vihVolts: number } }[];
   expected: Tri[][];
   sampleTimes: number[];
+  /** State signals (internal nets of designs with stored state) and their expected values. */
+  states?: { name: string; node: string; values: Float64Array; levels: { vilVolts: number; vihVolts: number } }[];
+  expectedStates?: Tri[][];
+  /** Compare only these steps (e.g. the samples just before each clock edge). Default: all. */
+  steps?: readonly number[];
 }
 
 export function compareRun(x: CompareInput): RunComparison {
@@ -40,20 +47,30 @@ export function compareRun(x: CompareInput): RunComparison {
   let skipped = 0;
   let worstLow = -Infinity;
   let worstHigh = Infinity;
+  const groups = [
+    { kind: "output" as const, signals: x.outputs, expected: x.expected },
+    { kind: "state" as const, signals: x.states ?? [], expected: x.expectedStates ?? [] },
+  ];
+  const only = x.steps ? new Set(x.steps) : undefined;
   x.sampleTimes.forEach((t, step) => {
-    x.outputs.forEach((o, k) => {
-      const expected = x.expected[step]![k]!;
-      const volts = sampleAt(x.time, o.values, t);
-      const read: 0 | 1 | "?" = volts <= o.levels.vilVolts ? 0 : volts >= o.levels.vihVolts ? 1 : "?";
-      if (expected === "X") {
-        skipped++;
-        return;
-      }
-      compared++;
-      if (expected === 0) worstLow = Math.max(worstLow, volts);
-      else worstHigh = Math.min(worstHigh, volts);
-      if (read !== expected) failures.push({ step, output: o.name, timeSeconds: t, volts, expected, read, ok: false });
-    });
+    if (only && !only.has(step)) return;
+    for (const g of groups) {
+      g.signals.forEach((o, k) => {
+        const expected = g.expected[step]?.[k] ?? "X";
+        const volts = sampleAt(x.time, o.values, t);
+        const read: 0 | 1 | "?" = volts <= o.levels.vilVolts ? 0 : volts >= o.levels.vihVolts ? 1 : "?";
+        if (expected === "X") {
+          skipped++;
+          return;
+        }
+        compared++;
+        if (g.kind === "output") {
+          if (expected === 0) worstLow = Math.max(worstLow, volts);
+          else worstHigh = Math.min(worstHigh, volts);
+        }
+        if (read !== expected) failures.push({ step, output: o.name, kind: g.kind, timeSeconds: t, volts, expected, read, ok: false });
+      });
+    }
   });
   return { pass: failures.length === 0 && compared > 0, compared, skipped, failures, worstLowVolts: worstLow, worstHighVolts: worstHigh };
 }
