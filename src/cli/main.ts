@@ -14,6 +14,7 @@ import { eng } from "../emit/format.js";
 import { fileNamesOf } from "../emit/index.js";
 import { filesWithInputHash, synthesisHash } from "../verify/reuse.js";
 import { runVerify, verifyFlags, type VerifyArgs } from "./verify.js";
+import { characterizeSynthesis } from "./characterize.js";
 
 export const EXIT = { ok: 0, design: 1, usage: 2 } as const;
 
@@ -62,9 +63,10 @@ interface SynthArgs extends RawSizingArgs, RawOptimizeArgs {
   parts?: string;
   force?: boolean;
   quiet?: boolean;
+  characterize?: boolean;
 }
 
-export function runSynth(args: SynthArgs, argv: string[], io: Io): number {
+export async function runSynth(args: SynthArgs, argv: string[], io: Io): Promise<number> {
   const diagnostics: Diagnostic[] = [];
   const sources = new Map<string, string>();
   const read = readText(args.file);
@@ -114,6 +116,18 @@ export function runSynth(args: SynthArgs, argv: string[], io: Io): number {
     if (!args.quiet) io.err.write(`${internal ? "internal error" : "nothing written"}: ${diagnostics.filter((d) => d.severity === "error").length} error(s)\n`);
     return EXIT.design;
   }
+  // --characterize: the sized cells measured in ngspice; the files emitted again with the figures.
+  let characterizedText: string | undefined;
+  if (args.characterize) {
+    const c = await characterizeSynthesis(result, io);
+    printDiagnostics(args.quiet ? c.diagnostics.filter((d) => d.severity === "error") : c.diagnostics, sources, io.err);
+    if (!c.files || hasErrors(c.diagnostics)) {
+      if (!args.quiet) io.err.write(`nothing written: ${c.diagnostics.filter((d) => d.severity === "error").length} error(s) in the characterization${c.summary ? ` (${c.summary})` : ""}\n`);
+      return EXIT.design;
+    }
+    result.files = c.files;
+    characterizedText = c.summary;
+  }
   // The hash of source and options lets `verify` reuse these files as they are.
   const hashed = filesWithInputHash(result.files, fileNamesOf(result.design!.netlist.name).json, synthesisHash(TOOL.version, text, opts as unknown as Record<string, unknown>));
   const w = writeOutputs(args.out, hashed, { force: !!args.force });
@@ -128,6 +142,7 @@ export function runSynth(args: SynthArgs, argv: string[], io: Io): number {
       `${nl.name}: ${nl.cells.length} cells, ${d.totals.transistors} transistors, ${d.totals.diodes} diodes, ${d.totals.resistors} resistors; ` +
         `worst-case ${eng(d.totals.staticPowerWatts, "W")} at ${eng(sizing.supplyVolts, "V")}\n`,
     );
+    if (characterizedText) io.out.write(`  ${characterizedText}\n`);
     for (const f of w.written) io.out.write(`  wrote ${f}\n`);
   }
   return EXIT.ok;
@@ -148,8 +163,10 @@ export async function main(argv: string[], io: Io = processIo): Promise<number> 
           .option("out", { alias: "o", type: "string", describe: "folder for the outputs", default: "out" })
           .option("force", { type: "boolean", describe: "overwrite files gatewright did not write" })
           .option("quiet", { alias: "q", type: "boolean", describe: "print errors only" })
+          .option("characterize", { type: "boolean", describe: "measure every sized cell in ngspice (embedded) at the sizing's corners with its worst-case load, put the figures beside the analytic ones in the report and JSON, and fail if they contradict the sizing (about 10-20 s)" })
           .example("$0 synth examples/pump.logic --out out/pump", "build the pump controller at 5 V")
-          .example("$0 synth examples/pump.logic --out out/pump12 --supply 12V", "the same design for a 12 V plant supply"),
+          .example("$0 synth examples/pump.logic --out out/pump12 --supply 12V", "the same design for a 12 V plant supply")
+          .example("$0 synth examples/pump.logic --out out/pump --characterize", "also measure each sized cell in ngspice at the corners"),
       (a) => {
         // Run only after parsing has finished without a usage error.
         pending = () => runSynth(a as unknown as SynthArgs, argv, io);

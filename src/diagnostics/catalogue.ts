@@ -80,6 +80,7 @@ export const CATALOGUE = {
   GW4002: { severity: "error", title: "fan-out limit too small" },
   GW4003: { severity: "note", title: "fan-out limited by buffering or duplicating cells" },
   GW4004: { severity: "note", title: "wired-AND outputs used" },
+  GW4005: { severity: "error", title: "wired-AND outputs cannot be sized yet" },
 
   GW5001: { severity: "error", title: "no standard resistor values meet the constraints" },
   GW5002: { severity: "warning", title: "part rating exceeded" },
@@ -100,6 +101,11 @@ export const CATALOGUE = {
   GW7003: { severity: "error", title: "simulator not available" },
   GW7004: { severity: "error", title: "simulated noise margin below the one the design was sized for" },
   GW7005: { severity: "note", title: "simulation covered part of the input combinations" },
+  // GW7020-GW7029: characterization of the sized cells in a simulator (src/characterize).
+  GW7020: { severity: "error", title: "simulated cell misses a constraint the sizing claims to meet" },
+  GW7021: { severity: "error", title: "simulated cell misses a constraint the sizing reported failing" },
+  GW7022: { severity: "error", title: "characterization could not measure a figure" },
+  GW7023: { severity: "warning", title: "simulated delay outside the estimate's stated accuracy" },
 
   GW8001: { severity: "error", title: "cannot write output" },
   GW8002: { severity: "error", title: "refusing to overwrite a file gatewright did not write" },

@@ -3,8 +3,10 @@ import type { LogicGraph } from "../logic/graph.js";
 import type { EquivalenceResult } from "../logic/equivalence.js";
 import type { SizedDesign } from "../electrical/types.js";
 import type { Stimulus } from "./stimulus.js";
+import type { OptimizationReport } from "../optimize/report.js";
 import type { StateAnalysis } from "../sequential/state.js";
 import type { SequentialTiming } from "../sequential/timing.js";
+import type { Characterization } from "../characterize/types.js";
 
 export interface EmitContext {
   tool: { name: string; version: string };
@@ -25,6 +27,10 @@ export interface EmitContext {
   state?: StateAnalysis;
   /** State elements' timing and the clock limit. */
   timing?: SequentialTiming;
+  /** What the optimizer did: parts before and after, passes, where heuristics were used. */
+  optimization?: OptimizationReport;
+  /** The cells measured in ngspice at the corners (gatewright synth --characterize). */
+  characterization?: Characterization;
 }
 
 export function generatedBy(ctx: EmitContext): string {

@@ -6,6 +6,7 @@ import { eng, num, parameterText } from "./format.js";
 import { render } from "./render.js";
 import { generatedBy, type EmitContext } from "./context.js";
 import { stateJson, stateSummaryText, stateView } from "../sequential/report-view.js";
+import { characterizationView } from "../characterize/view.js";
 
 /** The cautions every report and the README carry. */
 export function cautions(design: SizedDesign): string[] {
@@ -134,7 +135,22 @@ export function reportView(ctx: EmitContext, files: { name: string; what: string
     stepText: eng(ctx.stepSeconds, "s"),
     state: stateView(ctx.state, ctx.timing, ctx.stimulus, ctx.stepSeconds),
     notes: [...d.notes, ...ctx.notes],
+    optimization: optimizationView(ctx),
+    characterization: ctx.characterization ? characterizationView(ctx.characterization) : undefined,
     files,
+  };
+}
+
+function optimizationView(ctx: EmitContext) {
+  const o = ctx.optimization;
+  if (!o) return undefined;
+  const row = (label: string, t: typeof o.before) => ({ label, cells: t.cells, transistors: t.transistors, diodes: t.diodes, resistors: t.resistors, parts: t.parts, nand2: t.nand2, cost: num(t.cost, 4) });
+  return {
+    level: o.level,
+    model: o.costModel.description,
+    rows: [row("as written, mapped directly", o.before), row(`after optimization (--opt ${o.level})`, o.after)],
+    passes: o.passes.map((p) => ({ pass: p.pass, before: num(p.costBefore, 4), after: num(p.costAfter, 4), kept: p.accepted ? "kept" : "dropped (no cheaper)" })),
+    notes: o.notes.map((n) => (n.signal ? `${n.signal}: ${n.message}` : n.message)),
   };
 }
 
@@ -198,6 +214,8 @@ export function designJson(ctx: EmitContext, files: { name: string; what: string
     criticalPath: d.criticalPath ?? null,
     state: stateJson(ctx.state, ctx.timing),
     equivalence: ctx.equivalence,
+    optimization: ctx.optimization ?? null,
+    ...(ctx.characterization ? { characterization: ctx.characterization } : {}),
     testbench: {
       stepSeconds: ctx.stepSeconds,
       exhaustive: ctx.stimulus.exhaustive,

@@ -6,7 +6,7 @@ import { optimizeDesign, type OptimizationReport, type OptLevel } from "../optim
 import { cellsToLogic, dtlCostModel, mapToCells, tallyParts, type CellChoice, type CellNetlist, type CostModel } from "../map/index.js";
 import { sizeDesign } from "../electrical/size.js";
 import type { SizedDesign, SizingOptions } from "../electrical/types.js";
-import { emitDesign, type OutputFile } from "../emit/index.js";
+import { emitDesign, type EmitContext, type OutputFile } from "../emit/index.js";
 import type { Stimulus } from "../emit/stimulus.js";
 import { readDesign } from "./front.js";
 import { checkFeedbackHazards, planTestbench } from "../sequential/plan.js";
@@ -67,6 +67,8 @@ export interface Synthesis {
   stimulus?: Stimulus;
   stepSeconds?: number;
   files?: OutputFile[];
+  /** What the files were emitted from (to emit them again with more, e.g. a characterization). */
+  emitContext?: EmitContext;
   diagnostics: Diagnostic[];
 }
 
@@ -142,6 +144,17 @@ export function synthesize(text: string, file: string, opts: SynthesisOptions): 
     if (!mapped.value) return out;
     const netlist = mapped.value;
     out.netlist = netlist;
+    if (netlist.cells.some((c) => c.tiedOutput)) {
+      // The mapping ties open-collector outputs together, but the electrical engine does not yet
+      // size one collector resistor shared by several transistors: refuse rather than emit a
+      // circuit whose values were not checked.
+      diagnostics.push(
+        diag("GW4005", "wired-AND outputs were mapped, but the electrical engine cannot yet size a collector resistor shared by several cells", { file }, {
+          hint: "build without --wired-and; the mapping alone (with its part savings) is shown by the optimizer's tests",
+        }),
+      );
+      return out;
+    }
     out.optimizationReport = { ...report, after: tallyParts(netlist, costModel) };
 
     // Nothing is written unless the cells compute the source's logic.
@@ -192,7 +205,7 @@ export function synthesize(text: string, file: string, opts: SynthesisOptions): 
     out.stepSeconds = stepSeconds;
     const notes: string[] = [...fallbackNotes, ...plan.notes];
     if (!stimulus.exhaustive && !stimulus.clock) notes.push(`The testbench uses ${stimulus.vectors.length} seeded random vectors (seed ${stimulus.seed}), not every combination of the ${g.inputs.length} inputs.`);
-    out.files = emitDesign({
+    const emitContext: EmitContext = {
       tool: TOOL,
       commandLine: opts.commandLine,
       sourceFile: file,
@@ -205,7 +218,10 @@ export function synthesize(text: string, file: string, opts: SynthesisOptions): 
       notes,
       ...(front.state ? { state: front.state } : {}),
       ...(plan.timing ? { timing: plan.timing } : {}),
-    });
+      ...(out.optimizationReport ? { optimization: out.optimizationReport } : {}),
+    };
+    out.emitContext = emitContext;
+    out.files = emitDesign(emitContext);
     return out;
   } catch (e) {
     diagnostics.push(

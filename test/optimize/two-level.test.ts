@@ -215,9 +215,9 @@ describe("multi-output minimization shares product terms", () => {
     }
   });
 
-  it("shares the term a textbook pair of functions has in common (f1 = Σm(3,5,7), f2 = Σm(3,6,7); common practice)", () => {
-    // Apart: f1 = ac + bc... with a = bit 0: f1 on {3,5,7} = a·b + a·c, f2 on {3,6,7} = a·b + b·c:
-    // a·b is shared, so three distinct terms instead of four.
+  it("shares the term two functions have in common (f1 = Σm(3,5,7), f2 = Σm(3,6,7); worked by hand)", () => {
+    // With a = bit 0, b = bit 1, c = bit 2: f1 = a·b + a·c and f2 = a·b + b·c, each minimum
+    // apart; together a·b is one shared term: three distinct terms instead of four.
     const f1 = Array.from({ length: 8 }, (_, p) => ([3, 5, 7].includes(p) ? 1 : 0));
     const f2 = Array.from({ length: 8 }, (_, p) => ([3, 6, 7].includes(p) ? 1 : 0));
     const m = minimizeExactMulti([toSpec(f1), toSpec(f2)], 3)!;

@@ -3,7 +3,7 @@
 // right output and corners; measured levels agree with the electrical engine's analytic figures
 // within stated tolerances; delays agree with ngspice's own .meas; the SVG plots are well formed
 // XML (W3C XML 1.0, test/plot/xml.ts) with the expected series.
-import { readFileSync } from "node:fs";
+import { readdirSync, readFileSync } from "node:fs";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { synthesize, type Synthesis } from "../../src/pipeline/synthesize.js";
 import { embeddedSimulator, type Simulator } from "../../src/simulate/engine.js";
@@ -16,7 +16,11 @@ import { diodeVoltageVolts } from "../simulate/physics.js";
 
 let sim: Simulator;
 const results = new Map<string, { s: Synthesis; r: VerifyResult }>();
-const EXAMPLES = ["examples/pump.logic", "examples/decoder.logic", "examples/voter.v"];
+// Every shipped example (examples/*.logic, examples/*.v).
+const EXAMPLES = readdirSync("examples")
+  .filter((f) => f.endsWith(".logic") || f.endsWith(".v"))
+  .sort()
+  .map((f) => `examples/${f}`);
 
 function build(file: string, cells: "mixed" | "nand" = "mixed"): Synthesis {
   const s = synthesize(readFileSync(file, "utf8"), file, { maxFanin: 8, cells, cellsGiven: cells !== "mixed", sizing: { supplyVolts: 5 }, commandLine: "test" });
@@ -36,6 +40,10 @@ afterAll(async () => {
 });
 
 describe("the shipped examples pass at every corner", () => {
+  it("there are examples of both input languages", () => {
+    expect(EXAMPLES.some((f) => f.endsWith(".logic"))).toBe(true);
+    expect(EXAMPLES.some((f) => f.endsWith(".v"))).toBe(true);
+  });
   for (const f of EXAMPLES) {
     it(f, () => {
       const { r } = results.get(f)!;
