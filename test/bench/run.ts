@@ -6,7 +6,7 @@
 // Usage:  npm run bench                      the whole benchmark (about an hour on 2 busy cores)
 //         npm run bench -- --quick           small sizes only, to try it
 //         npm run bench -- --only random     one family (random, rca, cla, mul, chain, c17)
-//         npm run bench -- --stage-cap 60 --job-cap 900   time caps in seconds
+//         npm run bench -- --stage-cap 60 --job-cap 600   time caps in seconds
 //         npm run bench -- --profile random:10000         one design under node --cpu-prof:
 //                                                         the hottest functions per stage
 //
@@ -359,7 +359,7 @@ function parseArgs(argv: string[]) {
     quick: argv.includes("--quick"),
     only: get("--only") as Family | undefined,
     stageCapMs: Number(get("--stage-cap") ?? 60) * 1000,
-    jobCapMs: Number(get("--job-cap") ?? 900) * 1000,
+    jobCapMs: Number(get("--job-cap") ?? 600) * 1000,
     profile: get("--profile"),
   };
 }

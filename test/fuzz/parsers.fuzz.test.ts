@@ -265,12 +265,12 @@ describe("fuzzing the equation reader (*.logic)", () => {
     for (const s of LOGIC_SEEDS) expectClean("equations", s.text, s.name);
   });
 
-  const nMut = runs(0.22);
+  const nMut = runs(0.30);
   it(`mutated examples and fixtures (${nMut} cases)`, async () => {
     await fc.assert(prop(mutated(LOGIC_SEEDS, EQ_VOCAB, ALL_TEXTS), (c) => expectClean("equations", c.text, c.name)), assertOpts(nMut, 1));
   }, timeout(nMut, 100));
 
-  const nSoup = runs(0.08);
+  const nSoup = runs(0.10);
   it(`token soup (${nSoup} cases)`, async () => {
     await fc.assert(prop(soup(EQ_VOCAB), (t) => expectClean("equations", t, "soup.logic")), assertOpts(nSoup, 2));
   }, timeout(nSoup, 50));
@@ -287,12 +287,12 @@ describe("fuzzing the structural Verilog reader (*.v)", () => {
     for (const s of VERILOG_SEEDS) expectClean("verilog", s.text, s.name);
   });
 
-  const nMut = runs(0.22);
+  const nMut = runs(0.30);
   it(`mutated examples and fixtures (${nMut} cases)`, async () => {
     await fc.assert(prop(mutated(VERILOG_SEEDS, V_VOCAB, ALL_TEXTS), (c) => expectClean("verilog", c.text, c.name)), assertOpts(nMut, 11));
   }, timeout(nMut, 100));
 
-  const nSoup = runs(0.08);
+  const nSoup = runs(0.10);
   it(`token soup (${nSoup} cases)`, async () => {
     await fc.assert(prop(soup(V_VOCAB), (t) => expectClean("verilog", t, "soup.v")), assertOpts(nSoup, 12));
   }, timeout(nSoup, 50));
