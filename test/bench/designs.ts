@@ -158,7 +158,7 @@ export function randomNetwork(gates: number, opts: { inputs?: number; seed?: num
   for (let i = 0; i < inputs.length; i += 20) out.push(`  input ${inputs.slice(i, i + 20).join(", ")};`);
   for (let i = 0; i < outputs.length; i += 20) out.push(`  output ${outputs.slice(i, i + 20).join(", ")};`);
   for (let i = 0; i < decl.length; i += 20) out.push(`  wire ${decl.slice(i, i + 20).join(", ")};`);
-  out.push(...body);
+  for (const line of body) out.push(line); // not push(...body): 200,000 arguments overflow the stack
   outSignals.forEach((x, i) => out.push(`  buf (o${i}, ${x});`));
   out.push("endmodule", "");
   return out.join("\n");

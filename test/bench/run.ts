@@ -7,6 +7,8 @@
 //         npm run bench -- --quick           small sizes only, to try it
 //         npm run bench -- --only random     one family (random, rca, cla, mul, chain, c17)
 //         npm run bench -- --stage-cap 60 --job-cap 600   time caps in seconds
+//         npm run bench -- --only random --sizes 50000,100000,200000 --start-modes optimize=reduced,equivalence=skipped,plan=reduced
+//                                                    chosen sizes, starting with stages reduced
 //         npm run bench -- --profile random:10000         one design under node --cpu-prof:
 //                                                         the hottest functions per stage
 //
@@ -113,10 +115,17 @@ async function child(job: Job): Promise<void> {
   const started = performance.now();
   const rss = () => Math.round(process.memoryUsage().rss / 1e6);
   let info: Record<string, unknown> = {};
+  let current: StageKey | "start" = "start";
+  // An exception inside a stage is a bug in gatewright: report where, and end the child.
+  process.on("uncaughtException", (e) => {
+    send({ t: "crash", stage: current, message: (e.stack ?? String(e)).split("\n").slice(0, 6).join("\n") });
+    process.exit(5);
+  });
   for (let rep = 0; rep < job.reps; rep++) {
     if (rep > 0 && performance.now() - started > job.repeatBudgetMs) break;
     (globalThis as { gc?: () => void }).gc?.();
     const time = <R>(stage: StageKey, f: () => R, note?: string): R => {
+      current = stage;
       const t0 = performance.now();
       const r = f();
       const line: StageLine = { t: "stage", rep, stage, ms: performance.now() - t0, rssMB: rss() };
@@ -218,7 +227,7 @@ interface JobResult {
   runs: number;
   info: Record<string, unknown>;
   /** Set when the child was stopped or failed. */
-  stopped?: { stage: StageKey | "start"; why: string };
+  stopped?: { stage: StageKey | "start"; why: string; crashed?: boolean };
   wallMs: number;
 }
 
@@ -281,6 +290,8 @@ function runJob(job: Job, jobCapMs: number, extraNodeArgs: string[] = []): Promi
           result.peakRssMB = Math.max(result.peakRssMB, msg.maxRssMB as number);
         } else if (msg.t === "error") {
           result.stopped = { stage: msg.stage as StageKey, why: String(msg.message) };
+        } else if (msg.t === "crash") {
+          result.stopped = { stage: msg.stage as StageKey, why: `${String(msg.stage)} threw ${String(msg.message)}`, crashed: true };
         }
       }
     });
@@ -361,6 +372,8 @@ function parseArgs(argv: string[]) {
     stageCapMs: Number(get("--stage-cap") ?? 60) * 1000,
     jobCapMs: Number(get("--job-cap") ?? 600) * 1000,
     profile: get("--profile"),
+    sizes: get("--sizes")?.split(",").map(Number),
+    startModes: Object.fromEntries((get("--start-modes") ?? "").split(",").filter(Boolean).map((kv) => kv.split("="))) as Partial<Record<ReducibleStage, Mode>>,
   };
 }
 
@@ -385,7 +398,7 @@ async function parent(): Promise<void> {
         { family: "chain", sizes: [1000, 2000, 4000] },
         { family: "random", sizes: [1000, 2000, 5000, 10_000, 20_000, 50_000, 100_000, 200_000] },
       ];
-  const entries = args.only ? plan.filter((p) => p.family === args.only) : plan;
+  const entries = (args.only ? plan.filter((p) => p.family === args.only) : plan).map((p) => (args.sizes ? { ...p, sizes: args.sizes } : p));
   const print = (s: string) => process.stdout.write(s + "\n");
   print(`gatewright benchmark — ${new Date().toISOString()}`);
   print(`node ${process.version}, ${cpus().length} × ${cpus()[0]?.model ?? "cpu"}, ${(totalmem() / 2 ** 30).toFixed(0)} GiB; load average at start ${loadavg().map((x) => x.toFixed(2)).join(" ")}`);
@@ -393,7 +406,7 @@ async function parent(): Promise<void> {
 
   const results: JobResult[] = [];
   for (const entry of entries) {
-    const modes: Record<ReducibleStage, Mode> = { optimize: "full", equivalence: "full", plan: "full" };
+    const modes: Record<ReducibleStage, Mode> = { optimize: "full", equivalence: "full", plan: "full", ...args.startModes };
     let ended: string | undefined;
     for (const size of entry.sizes) {
       if (ended) {
@@ -415,8 +428,12 @@ async function parent(): Promise<void> {
         if (modes[k] === "full") modes[k] = "reduced";
         else if (modes[k] === "reduced" && k !== "plan") modes[k] = "skipped";
       }
-      if (r.stopped && !(["optimize", "equivalence", "plan"] as string[]).includes(r.stopped.stage)) ended = `${r.stopped.stage} did not finish at ${size}`;
-      else if (r.stopped && r.stopped.stage === "plan" && modes.plan === "reduced" && job.modes.plan === "reduced") ended = `the reduced stimulus did not finish at ${size}`;
+      // A crash is recorded and the family goes on (the other stages' figures still count); a
+      // stage that cannot be reduced and ran past the job cap ends the family.
+      if (r.stopped && !r.stopped.crashed) {
+        if (!(["optimize", "equivalence", "plan"] as string[]).includes(r.stopped.stage)) ended = `${r.stopped.stage} did not finish at ${size}`;
+        else if (r.stopped.stage === "plan" && job.modes.plan === "reduced") ended = `the reduced stimulus did not finish at ${size}`;
+      }
     }
   }
   print("");
@@ -427,8 +444,10 @@ function report(results: JobResult[], args: { stageCapMs: number; jobCapMs: numb
   const cell = (r: JobResult, k: StageKey) => {
     const t = r.times.get(k);
     const note = r.notes.get(k) ?? (r.job.modes[k as ReducibleStage] !== undefined && r.job.modes[k as ReducibleStage] !== "full" ? r.job.modes[k as ReducibleStage] : undefined);
-    if (!t || t.length === 0) return r.stopped?.stage === k ? `> cap` : "—";
-    return fmtMs(median(t)) + (note ? ` (${note})` : "");
+    if (!t || t.length === 0) return r.stopped?.stage === k ? (r.stopped.crashed ? "crash" : r.stopped.why.startsWith("stopped") ? "> cap" : "failed") : "—";
+    // A stage that ran once and then crashed (the NAND fallback's second try, say).
+    const crashed = r.stopped?.crashed && r.stopped.stage === k ? " + crash" : "";
+    return fmtMs(median(t)) + (note ? ` (${note})` : "") + crashed;
   };
   print("## Every design: stage times (ms, medians), totals and peak memory\n");
   print(
@@ -471,10 +490,22 @@ function report(results: JobResult[], args: { stageCapMs: number; jobCapMs: numb
       const worst = STAGES.map((s) => ({ s: s.label, before: med(a, s.key) ?? 0, x: per(med(a, s.key), med(b, s.key)) }))
         .filter((x) => x.x !== undefined && x.before > 20)
         .sort((p, q) => q.x! - p.x!)[0];
-      rows.push([fam, `${a.gates} → ${b.gates}`, doublings.toFixed(2), verdict(tRatio), sameModes ? verdict(allRatio) : "— (modes differ)", worst ? `${worst.s} ${worst.x!.toFixed(2)}` : "—"]);
+      // The stages both runs finished, in the same mode: a figure even when a stage crashed.
+      const common = STAGES.filter((st) => med(a, st.key) !== undefined && med(b, st.key) !== undefined && (a.notes.get(st.key) ?? "") === (b.notes.get(st.key) ?? ""));
+      const sum = (r: JobResult) => common.reduce((x, st) => x + med(r, st.key)!, 0);
+      const commonRatio = common.length ? per(sum(a), sum(b)) : undefined;
+      rows.push([
+        fam,
+        `${a.gates} → ${b.gates}`,
+        doublings.toFixed(2),
+        verdict(tRatio),
+        sameModes ? verdict(allRatio) : "— (modes differ)",
+        common.length === STAGES.length ? "all" : `${verdict(commonRatio)} (${common.map((st) => st.label).join(", ")})`,
+        worst ? `${worst.s} ${worst.x!.toFixed(2)}` : "—",
+      ]);
     }
   }
-  print(table(["family", "gates", "doublings", "target path, per doubling", "all stages, per doubling", "steepest stage (> 20 ms)"], rows, (i) => i === 2));
+  print(table(["family", "gates", "doublings", "target path, per doubling", "all stages, per doubling", "stages both finished, per doubling", "steepest stage (> 20 ms)"], rows, (i) => i === 2));
 
   // The issue's targets at 100,000 gates.
   print("\n## Targets (issue 7): 100,000-gate random network\n");
@@ -558,8 +589,10 @@ function summarizeProfile(path: string): string {
 
 if (process.argv[2] === "--child") {
   child(JSON.parse(process.argv[3]!) as Job).catch((e: unknown) => {
-    process.stdout.write(JSON.stringify({ t: "error", rep: -1, stage: "start", message: String((e as Error).stack ?? e) }) + "\n");
-    process.exit(4);
+    // Rethrown outside the promise, so the child's handler names the stage.
+    setImmediate(() => {
+      throw e;
+    });
   });
 } else {
   parent().catch((e: unknown) => {
