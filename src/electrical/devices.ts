@@ -113,6 +113,10 @@ export interface DeviceAtTemp {
   vCESatVolts: number;
   betaMin: number;
   betaMax: number;
+  /** The SPICE model cards' parameters, for figures computed from the junction equations (the
+   *  input thresholds, src/electrical/thresholds.ts). Absent: the book's piecewise-linear
+   *  device only (hand calculations in the tests). */
+  models?: { diode: Record<string, number>; npn: Record<string, number> };
 }
 
 export const REFERENCE_TEMP_C = 25;
@@ -140,6 +144,7 @@ export function devicesAt(dev: DeviceData, tempC: number): DeviceAtTemp {
     vCESatVolts: dev.vCESatVolts,
     betaMin: dev.betaMin * bf,
     betaMax: dev.betaMax * bf,
+    models: { diode: dev.diode.params, npn: dev.npn.params },
   };
 }
 

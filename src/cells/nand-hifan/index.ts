@@ -22,6 +22,7 @@ import type {
   InputDrive,
   OutputLoad,
 } from "../types.js";
+import { modelInputLowThreshold } from "../../electrical/thresholds.js";
 import { outputHighVolts, orLoadsAmps, outputLowVolts, ownCollectorAmps } from "../output-stage.js";
 
 function topology(fanin: number): CellTopology {
@@ -84,7 +85,12 @@ function analyze(values: CellValues, env: CellEnv, load: OutputLoad, drive: Inpu
   const satMargin = iB > 0 ? (d.betaMin * iB) / (iC + iLoad) : 0;
   const vOL = outputLowVolts(env, rc, iB, iLoad, satMargin);
   const vOH = outputHighVolts(env, load);
-  const vIL = d.vBECutInVolts + d.vDiodeCutInVolts + d.vBECutInVolts - d.vDiodeOnVolts;
+  // V_IL from the model cards where the devices have them (src/electrical/thresholds.ts): the
+  // follower's base-emitter junction and one diode in the chain, the input pulled up through
+  // R_X + R_P with the follower's collector current also in R_X; the book's cut-in sum otherwise.
+  const vILBook = d.vBECutInVolts + d.vDiodeCutInVolts + d.vBECutInVolts - d.vDiodeOnVolts;
+  const vIL =
+    modelInputLowThreshold(d, vcc, { chain: ["follower", "diode"], input: { kind: "and", pullUpOhms: rx + rp, collectorSharedOhms: rx }, rbOhms: rb, rcOhms: rc }) ?? vILBook;
   const vIH = weak.vPVolts - d.vDiodeCutInVolts;
   const inputLow = Math.max(0, vcc - d.vDiodeOnVolts - drive.vLowMaxVolts) / (rx + rp);
   const supplyLow = strong.iEAmps + iC;
@@ -117,6 +123,7 @@ function analyze(values: CellValues, env: CellEnv, load: OutputLoad, drive: Inpu
       followerEmitterAmps: weak.iEAmps,
       followerEmitterMaxAmps: strong.iEAmps,
       followerCollectorVolts: strong.vXVolts,
+      vILBookVolts: vILBook,
     },
   };
 }
@@ -176,6 +183,8 @@ export const nandHifanCell: CellDefinition = {
   bisectKey: "rpOhms",
   bisectDirection: {
     saturation: "down",
+    // V_IL rises with R_P: less current through the low input's diode.
+    "noise-margin-low": "up",
     "delay-fall": "down",
     "input-current": "up",
     "power-ceiling": "up",
@@ -185,6 +194,8 @@ export const nandHifanCell: CellDefinition = {
   freeKey: "rbOhms",
   freeDirection: {
     saturation: "up",
+    // V_IL (model cards) falls as R_B grows: less chain current at the threshold.
+    "noise-margin-low": "down",
     "turn-off-current": "down",
     "delay-fall": "up",
     "delay-rise": "down",

@@ -22,6 +22,7 @@ import type {
   InputDrive,
   OutputLoad,
 } from "../types.js";
+import { modelInputLowThreshold } from "../../electrical/thresholds.js";
 import { outputHighVolts, orLoadsAmps, outputLowVolts, ownCollectorAmps } from "../output-stage.js";
 
 function topology(fanin: number): CellTopology {
@@ -69,7 +70,10 @@ function analyze(values: CellValues, env: CellEnv, load: OutputLoad, drive: Inpu
   const satMargin = iB > 0 ? (d.betaMin * iB) / (iC + iLoad) : 0;
   const vOL = outputLowVolts(env, rc, iB, iLoad, satMargin);
   const vOH = outputHighVolts(env, load);
-  const vIL = 2 * d.vDiodeCutInVolts + d.vBECutInVolts - d.vDiodeOnVolts;
+  // V_IL from the model cards where the devices have them (src/electrical/thresholds.ts); the
+  // book's cut-in sum otherwise.
+  const vILBook = 2 * d.vDiodeCutInVolts + d.vBECutInVolts - d.vDiodeOnVolts;
+  const vIL = modelInputLowThreshold(d, vcc, { chain: ["diode", "diode"], input: { kind: "and", pullUpOhms: rp }, rbOhms: rb, rcOhms: rc }) ?? vILBook;
   const vIH = vP - d.vDiodeCutInVolts;
   // One low input carries the whole R_P current into its driver, whose low level is at most V_OL.
   const inputLow = Math.max(0, vcc - d.vDiodeOnVolts - drive.vLowMaxVolts) / rp;
@@ -98,7 +102,7 @@ function analyze(values: CellValues, env: CellEnv, load: OutputLoad, drive: Inpu
     supplyCurrentHighAmps: supplyHigh,
     powerLowWatts: vcc * supplyLow,
     powerHighWatts: vcc * supplyHigh,
-    extra: {},
+    extra: { vILBookVolts: vILBook },
   };
 }
 
@@ -149,6 +153,8 @@ export const nandCell: CellDefinition = {
   bisectKey: "rpOhms",
   bisectDirection: {
     saturation: "down",
+    // V_IL rises with R_P: less current through the low input's diode.
+    "noise-margin-low": "up",
     "delay-fall": "down",
     "input-current": "up",
     "power-ceiling": "up",
@@ -158,6 +164,8 @@ export const nandCell: CellDefinition = {
   freeKey: "rbOhms",
   freeDirection: {
     saturation: "up",
+    // V_IL (model cards) falls as R_B grows: less chain current at the threshold.
+    "noise-margin-low": "down",
     "turn-off-current": "down",
     "delay-fall": "up",
     "delay-rise": "down",

@@ -28,6 +28,7 @@ import type {
   InputDrive,
   OutputLoad,
 } from "../types.js";
+import { modelInputLowThreshold } from "../../electrical/thresholds.js";
 import { outputHighVolts, orLoadsAmps, outputLowVolts, ownCollectorAmps } from "../output-stage.js";
 
 function topology(fanin: number): CellTopology {
@@ -66,7 +67,12 @@ function analyze(values: CellValues, env: CellEnv, load: OutputLoad, drive: Inpu
   const satMargin = iB > 0 ? (d.betaMin * iB) / (iC + iLoad) : 0;
   const vOL = outputLowVolts(env, rc, iB, iLoad, satMargin);
   const vOH = outputHighVolts(env, load);
-  const vIL = 2 * d.vDiodeCutInVolts + d.vBECutInVolts;
+  // V_IL from the model cards where the devices have them (src/electrical/thresholds.ts): the
+  // input diode and the level-shift diode in the chain, the pin driven through the weakest
+  // driver's share of its pull-up; the book's cut-in sum otherwise.
+  const vILBook = 2 * d.vDiodeCutInVolts + d.vBECutInVolts;
+  const vIL =
+    modelInputLowThreshold(d, vcc, { chain: ["diode", "diode"], input: { kind: "or", sourceOhms: Number.isFinite(drive.orSourceOhms) ? drive.orSourceOhms : 0 }, rbOhms: rb, rcOhms: rc }) ?? vILBook;
   const vClamp = norInputClampVolts(env);
   const iNeeded = (iC + iLoad) / d.betaMin + i2;
   const nmHigh = (iIn - iNeeded) * drive.orSourceOhms;
@@ -95,7 +101,7 @@ function analyze(values: CellValues, env: CellEnv, load: OutputLoad, drive: Inpu
     supplyCurrentHighAmps: supplyHigh,
     powerLowWatts: vcc * supplyLow,
     powerHighWatts: vcc * supplyHigh,
-    extra: { baseDriveNeededAmps: iNeeded },
+    extra: { baseDriveNeededAmps: iNeeded, vILBookVolts: vILBook },
   };
 }
 
@@ -143,6 +149,8 @@ export const norCell: CellDefinition = {
   freeDirection: {
     saturation: "up",
     "noise-margin-high": "up",
+    // V_IL (model cards) falls as R_B grows: less chain current at the threshold.
+    "noise-margin-low": "down",
     "turn-off-current": "down",
     "delay-fall": "up",
     "delay-rise": "down",
