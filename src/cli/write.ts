@@ -100,6 +100,25 @@ export interface WriteOptions {
 
 let tempCounter = 0;
 
+/** Characters handed to one write: a large file goes out in pieces, so no encoded copy of the
+ *  whole text is made at once. */
+const WRITE_PIECE_CHARS = 1 << 20;
+
+function writeInPieces(fs: WriteFs, fd: number, text: string): void {
+  if (text.length <= WRITE_PIECE_CHARS) {
+    fs.writeSync(fd, text);
+    return;
+  }
+  for (let i = 0; i < text.length; ) {
+    let end = Math.min(text.length, i + WRITE_PIECE_CHARS);
+    // Never between the two halves of a surrogate pair.
+    const last = text.charCodeAt(end - 1);
+    if (end < text.length && last >= 0xd800 && last <= 0xdbff) end--;
+    fs.writeSync(fd, text.slice(i, end));
+    i = end;
+  }
+}
+
 export function writeOutputs(dir: string, files: OutputFile[], opts: WriteOptions = {}): WriteResult {
   const fs = opts.fs ?? NODE_WRITE_FS;
   const fail = (code: "GW8001" | "GW8002", message: string, path?: string): WriteResult => ({
@@ -163,7 +182,7 @@ export function writeOutputs(dir: string, files: OutputFile[], opts: WriteOption
       const fd = fs.openSync(temp, "wx");
       temps.push({ temp, final });
       try {
-        fs.writeSync(fd, f.content);
+        writeInPieces(fs, fd, f.content);
         fs.fsyncSync(fd);
       } finally {
         fs.closeSync(fd);

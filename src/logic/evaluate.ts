@@ -2,6 +2,7 @@
 // truth tables, and three-valued (0, 1, X) step-by-step for designs that store state.
 import type { LogicGraph, LogicOp } from "./graph.js";
 import { analyzeLoops, evaluationOrder } from "./loops.js";
+import { runTriWordProgram, wordProgram } from "./words.js";
 
 /** Computes one node's words from its operands' words. */
 export function evalOpWords(op: LogicOp, operands: Uint32Array[], words: number, out?: Uint32Array): Uint32Array {
@@ -290,4 +291,59 @@ export class StepSimulator {
     }
     return { outputs: this.g.outputs.map((p) => this.values[p.node]!), settled };
   }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Three-valued evaluation of a loop-free graph, bit-parallel
+
+/** Vectors evaluated at once by evaluateLoopFree (words of 32). */
+const LOOP_FREE_CHUNK_WORDS = 8;
+
+/**
+ * The three-valued values of `nodes` after each input vector (values in the graph's input
+ * order), for a graph without loops; undefined when it has one. This is what StepSimulator
+ * settles to, vector after vector: without a loop the settled state does not depend on the
+ * previous one, and every node's settled value is its operation on its operands' settled values
+ * (in evaluation order, once). An input node that is no port reads X, as in StepSimulator.
+ * Bit-parallel, dual rail (src/logic/words.ts), 256 vectors a pass.
+ */
+export function evaluateLoopFree(g: LogicGraph, vectors: readonly (readonly (0 | 1)[])[], nodes: readonly number[]): Tri[][] | undefined {
+  const order = evaluationOrder(g, new Set());
+  if (!order) return undefined;
+  const n = g.inputs.length;
+  const X = n; // the variable of an input node without a port
+  const freeVar = new Int32Array(g.nodes.length).fill(-1);
+  g.nodes.forEach((node, id) => {
+    if (node.op === "input") freeVar[id] = X;
+  });
+  g.inputs.forEach((p, i) => (freeVar[p.node] = i));
+  const slotOf = new Int32Array(g.nodes.length);
+  for (let id = 0; id < g.nodes.length; id++) slotOf[id] = id;
+  const p = wordProgram(g, order, slotOf, freeVar);
+  const W = Math.max(1, Math.min(LOOP_FREE_CHUNK_WORDS, Math.ceil(vectors.length / 32)));
+  const one = new Uint32Array(p.slots * W);
+  const zero = new Uint32Array(p.slots * W);
+  const out: Tri[][] = [];
+  for (let v0 = 0; v0 < vectors.length; v0 += 32 * W) {
+    const count = Math.min(32 * W, vectors.length - v0);
+    for (let f = 0; f < p.freeSlots.length; f++) {
+      const o = p.freeSlots[f]! * W;
+      const i = p.freeVars[f]!;
+      one.fill(0, o, o + W);
+      zero.fill(0, o, o + W);
+      if (i === X) continue;
+      for (let j = 0; j < count; j++) {
+        const bit = 1 << (j & 31);
+        if (vectors[v0 + j]![i]) one[o + (j >>> 5)] |= bit;
+        else zero[o + (j >>> 5)] |= bit;
+      }
+    }
+    runTriWordProgram(p, one, zero, W);
+    for (let j = 0; j < count; j++) {
+      const w = j >>> 5;
+      const bit = 1 << (j & 31);
+      out.push(nodes.map((id) => (one[id * W + w]! & bit ? 1 : zero[id * W + w]! & bit ? 0 : "X")));
+    }
+  }
+  return out;
 }

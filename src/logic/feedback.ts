@@ -147,7 +147,7 @@ function fixedPoints(g: LogicGraph, order: number[], own: number[], allCuts: Set
   const support = new Set<number>();
   const needed = new Uint8Array(g.nodes.length);
   const stack: number[] = [];
-  for (const c of own) stack.push(...g.nodes[c]!.fanins);
+  for (const c of own) for (const each of g.nodes[c]!.fanins) stack.push(each);
   while (stack.length) {
     const id = stack.pop()!;
     if (needed[id]) continue;
@@ -156,7 +156,7 @@ function fixedPoints(g: LogicGraph, order: number[], own: number[], allCuts: Set
       support.add(id);
       continue;
     }
-    stack.push(...g.nodes[id]!.fanins);
+    for (const each of g.nodes[id]!.fanins) stack.push(each);
   }
   for (const c of own) needed[c] = 1;
   const ownSet = new Set(own);

@@ -90,6 +90,10 @@ export function findStaticHazards(g: LogicGraph, signals: readonly string[], bou
   }
   const order = evaluationOrder(g, boundaryIds);
   if (!order) throw new Error("findStaticHazards: a loop is not broken at the boundary");
+  const pos = new Int32Array(g.nodes.length);
+  order.forEach((id, k) => (pos[id] = k));
+  // One scratch array of values for all cones: each cone writes its own nodes before reading.
+  const values: Tri[] = new Array(g.nodes.length).fill("X");
   const inputIds = new Set(g.inputs.map((p) => p.node));
   const hazards: StaticHazard[] = [];
   const skipped: string[] = [];
@@ -98,18 +102,18 @@ export function findStaticHazards(g: LogicGraph, signals: readonly string[], bou
     const root = byName.get(s);
     if (root === undefined || !boundaryIds.has(root)) continue;
     // The cone of the root's operation, stopping at inputs and boundary nodes.
-    const inCone = new Uint8Array(g.nodes.length);
+    const inCone = new Set<number>();
     const vars: number[] = [];
     const stack = [...g.nodes[root]!.fanins];
     while (stack.length) {
       const id = stack.pop()!;
-      if (inCone[id]) continue;
-      inCone[id] = 1;
+      if (inCone.has(id)) continue;
+      inCone.add(id);
       if (inputIds.has(id) || boundaryIds.has(id)) {
         vars.push(id);
         continue;
       }
-      stack.push(...g.nodes[id]!.fanins);
+      for (const each of g.nodes[id]!.fanins) stack.push(each);
     }
     vars.sort((a, b) => a - b);
     if (vars.length > MAX_HAZARD_SUPPORT) {
@@ -117,8 +121,7 @@ export function findStaticHazards(g: LogicGraph, signals: readonly string[], bou
       continue;
     }
     const varIndex = new Map(vars.map((v, i) => [v, i]));
-    const coneOrder = order.filter((id) => inCone[id] && !varIndex.has(id));
-    const values: Tri[] = new Array(g.nodes.length).fill("X");
+    const coneOrder = [...inCone].filter((id) => !varIndex.has(id)).sort((a, b) => pos[a]! - pos[b]!);
     const evaluate = (assign: (i: number) => Tri): Tri => {
       vars.forEach((v, i) => (values[v] = assign(i)));
       for (const id of coneOrder) {

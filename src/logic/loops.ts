@@ -10,49 +10,57 @@ export interface LoopAnalysis {
   groups: number[][];
 }
 
-/** Tarjan's strongly connected components, iterative. */
+/** Tarjan's strongly connected components, iterative (the work stack in flat arrays). */
 export function stronglyConnected(g: LogicGraph): number[][] {
   const n = g.nodes.length;
   const index = new Int32Array(n).fill(-1);
   const low = new Int32Array(n);
   const onStack = new Uint8Array(n);
-  const stack: number[] = [];
+  const stack = new Int32Array(n);
+  let sp = 0;
   const comps: number[][] = [];
   let counter = 0;
-  const work: { v: number; i: number }[] = [];
+  // The depth-first walk: node and next operand position per level.
+  const workV = new Int32Array(n);
+  const workI = new Int32Array(n);
+  let wp = 0;
   for (let root = 0; root < n; root++) {
     if (index[root] !== -1) continue;
-    work.push({ v: root, i: 0 });
+    workV[wp] = root;
+    workI[wp++] = 0;
     index[root] = low[root] = counter++;
-    stack.push(root);
+    stack[sp++] = root;
     onStack[root] = 1;
-    while (work.length) {
-      const top = work[work.length - 1]!;
-      const fanins = g.nodes[top.v]!.fanins;
-      if (top.i < fanins.length) {
-        const w = fanins[top.i++]!;
+    while (wp > 0) {
+      const v = workV[wp - 1]!;
+      const fanins = g.nodes[v]!.fanins;
+      const i = workI[wp - 1]!;
+      if (i < fanins.length) {
+        workI[wp - 1] = i + 1;
+        const w = fanins[i]!;
         if (index[w] === -1) {
           index[w] = low[w] = counter++;
-          stack.push(w);
+          stack[sp++] = w;
           onStack[w] = 1;
-          work.push({ v: w, i: 0 });
+          workV[wp] = w;
+          workI[wp++] = 0;
         } else if (onStack[w]) {
-          low[top.v] = Math.min(low[top.v]!, index[w]!);
+          low[v] = Math.min(low[v]!, index[w]!);
         }
       } else {
-        work.pop();
-        if (work.length) {
-          const parent = work[work.length - 1]!.v;
-          low[parent] = Math.min(low[parent]!, low[top.v]!);
+        wp--;
+        if (wp > 0) {
+          const parent = workV[wp - 1]!;
+          low[parent] = Math.min(low[parent]!, low[v]!);
         }
-        if (low[top.v] === index[top.v]) {
+        if (low[v] === index[v]) {
           const comp: number[] = [];
           let w: number;
           do {
-            w = stack.pop()!;
+            w = stack[--sp]!;
             onStack[w] = 0;
             comp.push(w);
-          } while (w !== top.v);
+          } while (w !== v);
           comps.push(comp);
         }
       }
@@ -108,7 +116,7 @@ function onCycle(g: LogicGraph, start: number, within: Set<number>, cuts: Set<nu
     if (v === start) return true;
     if (!within.has(v) || cuts.has(v) || seen.has(v)) continue;
     seen.add(v);
-    stack.push(...g.nodes[v]!.fanins);
+    for (const each of g.nodes[v]!.fanins) stack.push(each);
   }
   return false;
 }
@@ -152,22 +160,34 @@ function hasCycle(g: LogicGraph, within: Set<number>, cuts: Set<number>): boolea
 export function evaluationOrder(g: LogicGraph, cuts: ReadonlySet<number>): number[] | undefined {
   const n = g.nodes.length;
   const indeg = new Int32Array(n);
-  const users: number[][] = g.nodes.map(() => []);
-  g.nodes.forEach((node, v) => {
-    if (cuts.has(v)) return;
-    for (const f of node.fanins) {
+  // Readers of each node as flat lists (start[f] .. start[f + 1]), in ascending reader order.
+  const start = new Int32Array(n + 1);
+  const isCut = new Uint8Array(n);
+  for (const c of cuts) if (c >= 0 && c < n) isCut[c] = 1;
+  for (let v = 0; v < n; v++) {
+    if (isCut[v]) continue;
+    for (const f of g.nodes[v]!.fanins) {
       indeg[v]!++;
-      users[f]!.push(v);
+      start[f + 1]!++;
     }
-  });
-  const order: number[] = [];
-  const queue: number[] = [];
-  for (let v = 0; v < n; v++) if (indeg[v] === 0) queue.push(v);
-  let head = 0;
-  while (head < queue.length) {
-    const v = queue[head++]!;
-    order.push(v);
-    for (const u of users[v]!) if (--indeg[u]! === 0) queue.push(u);
   }
-  return order.length === n ? order : undefined;
+  for (let f = 0; f < n; f++) start[f + 1]! += start[f]!;
+  const fill = start.slice(0, n);
+  const users = new Int32Array(start[n]!);
+  for (let v = 0; v < n; v++) {
+    if (isCut[v]) continue;
+    for (const f of g.nodes[v]!.fanins) users[fill[f]!++] = v;
+  }
+  const queue = new Int32Array(n);
+  let tail = 0;
+  for (let v = 0; v < n; v++) if (indeg[v] === 0) queue[tail++] = v;
+  let head = 0;
+  while (head < queue.length && head < tail) {
+    const v = queue[head++]!;
+    for (let k = start[v]!; k < start[v + 1]!; k++) {
+      const u = users[k]!;
+      if (--indeg[u]! === 0) queue[tail++] = u;
+    }
+  }
+  return tail === n ? Array.from(queue) : undefined;
 }

@@ -10,13 +10,20 @@ export class NetlistEditor {
   private readonly names = new Set<string>();
   private readonly nextSuffix = new Map<string, number>();
 
-  constructor(private readonly base: CellNetlist) {
-    this.nets = base.nets.map((n) => {
-      const x: Net = { ...n, driver: { ...n.driver }, loads: n.loads.map((l) => ({ ...l })) };
-      if (n.tiedCells) x.tiedCells = [...n.tiedCells];
-      return x;
-    });
-    this.cells = base.cells.map((c) => ({ ...c, inputs: [...c.inputs] }));
+  /** With `adopt`, the editor works on the netlist's own nets and cells (the caller hands it
+   *  over and does not use it again) instead of copies. */
+  constructor(private readonly base: CellNetlist, adopt = false) {
+    if (adopt) {
+      this.nets = base.nets;
+      this.cells = base.cells;
+    } else {
+      this.nets = base.nets.map((n) => {
+        const x: Net = { ...n, driver: { ...n.driver }, loads: n.loads.map((l) => ({ ...l })) };
+        if (n.tiedCells) x.tiedCells = [...n.tiedCells];
+        return x;
+      });
+      this.cells = base.cells.map((c) => ({ ...c, inputs: [...c.inputs] }));
+    }
     for (const n of this.nets) this.names.add(n.name);
   }
 
@@ -96,6 +103,7 @@ export class NetlistEditor {
   }
 
   finish(extra: Partial<Pick<CellNetlist, "maxFanout">> = {}): CellNetlist {
+    if (this.deadCells.size === 0 && this.deadNets.size === 0) return this.finishInPlace(extra);
     const cellMap = new Map<number, number>();
     const cells: CellInstance[] = [];
     this.cells.forEach((c, i) => {
@@ -144,6 +152,27 @@ export class NetlistEditor {
       nets: outNets,
       cells: outCells,
       stateNets: this.base.stateNets.map(mapNet),
+      maxFanin: this.base.maxFanin,
+    };
+    const fo = extra.maxFanout ?? this.base.maxFanout;
+    if (fo !== undefined) out.maxFanout = fo;
+    return out;
+  }
+
+  /** Nothing removed: every index stands, so the nets and cells are handed on as they are. */
+  private finishInPlace(extra: Partial<Pick<CellNetlist, "maxFanout">>): CellNetlist {
+    this.nets.forEach((n, i) => {
+      n.index = i;
+      if (n.tiedCells && n.tiedCells.length === 0) delete n.tiedCells;
+    });
+    this.cells.forEach((c, i) => (c.index = i));
+    const out: CellNetlist = {
+      name: this.base.name,
+      inputs: [...this.base.inputs],
+      outputs: this.base.outputs.map((o) => ({ name: o.name, net: o.net })),
+      nets: this.nets,
+      cells: this.cells,
+      stateNets: [...this.base.stateNets],
       maxFanin: this.base.maxFanin,
     };
     const fo = extra.maxFanout ?? this.base.maxFanout;

@@ -15,11 +15,12 @@ export interface FanoutResult {
   netsSplit: number;
 }
 
-export function legalizeFanout(netlist: CellNetlist, opts: { maxFanout: number; model: CostModel; inverter: CellFunction }): FanoutResult {
+/** With `inPlace` the netlist is edited in place (the caller hands it over). */
+export function legalizeFanout(netlist: CellNetlist, opts: { maxFanout: number; model: CostModel; inverter: CellFunction; inPlace?: boolean }): FanoutResult {
   const N = opts.maxFanout;
   if (!(N >= 2)) return { netlist: { ...netlist }, duplicated: 0, buffers: 0, netsSplit: 0 };
   if (netlist.nets.every((n) => n.loads.length <= N)) return { netlist: { ...netlist, maxFanout: N }, duplicated: 0, buffers: 0, netsSplit: 0 };
-  const ed = new NetlistEditor(netlist);
+  const ed = new NetlistEditor(netlist, !!opts.inPlace);
   const stateNets = new Set(netlist.stateNets);
   let duplicated = 0;
   let buffers = 0;

@@ -83,7 +83,7 @@ export function mapToCells(source: LogicGraph, opts: MapOptions): StageResult<Ce
       removed = w.removed;
     }
     const inverter: CellFunction = allow === "nand" ? "nand" : allow === "nor" ? "nor" : model.cellCost("nor", 1) <= model.cellCost("nand", 1) ? "nor" : "nand";
-    const f = maxFanout > 0 ? legalizeFanout(netlist, { maxFanout, model, inverter }) : { netlist, duplicated: 0, buffers: 0, netsSplit: 0 };
+    const f = maxFanout > 0 ? legalizeFanout(netlist, { maxFanout, model, inverter, inPlace: true }) : { netlist, duplicated: 0, buffers: 0, netsSplit: 0 };
     const cost = netlistCost(f.netlist, model);
     if (!best || cost < best.cost) best = { netlist: f.netlist, cost, tied, removed, duplicated: f.duplicated, buffers: f.buffers, netsSplit: f.netsSplit };
   }
@@ -107,6 +107,16 @@ export function mapToCells(source: LogicGraph, opts: MapOptions): StageResult<Ce
 }
 
 type Pol = 0 | 1; // 0: the node's value, 1: its complement
+
+// How a (node, polarity) is made, in the dynamic program's arrays.
+const K_LEAF = 1;
+const K_CONST = 2;
+const K_PASS = 3;
+const K_NAND = 4;
+const K_NOR = 5;
+const K_INV = 6;
+const K_XOR_NAND = 7;
+const K_XOR_NOR = 8;
 
 type Choice =
   | { kind: "leaf" }
@@ -132,60 +142,109 @@ function mapFamily(g: LogicGraph, source: LogicGraph, opts: MapOptions, allow: C
   const invFn: CellFunction = !norOk ? "nand" : !nandOk ? "nor" : cost("nor", 1) <= cost("nand", 1) ? "nor" : "nand";
   const invCost = cost(invFn, 1);
   const INF = Number.POSITIVE_INFINITY;
-  const costOf: [number, number][] = g.nodes.map(() => [INF, INF]);
-  const choice: [Choice | undefined, Choice | undefined][] = g.nodes.map(() => [undefined, undefined]);
+  // The dynamic program over flat arrays (index 2·id + polarity): the cheapest cost and how it
+  // is made, as a kind code and one number; Choice objects are made only for what is realized.
+  const N2 = 2 * g.nodes.length;
+  const costOf = new Float64Array(N2).fill(INF);
+  const kindOf = new Uint8Array(N2);
+  const auxOf = new Int32Array(N2);
+  const cellCosts = new Map<string, number>();
+  const cellCost = (fn: CellFunction, k: number) => {
+    const key = `${fn}${k}`;
+    let c = cellCosts.get(key);
+    if (c === undefined) cellCosts.set(key, (c = cost(fn, k)));
+    return c;
+  };
 
-  const consider = (id: number, pol: Pol, c: number, ch: Choice) => {
-    if (c < costOf[id]![pol]) {
-      costOf[id]![pol] = c;
-      choice[id]![pol] = ch;
+  const consider = (at: number, c: number, kind: number, aux: number) => {
+    if (c < costOf[at]!) {
+      costOf[at] = c;
+      kindOf[at] = kind;
+      auxOf[at] = aux;
     }
   };
 
   for (const id of order) {
     const n = g.nodes[id]!;
+    const p0 = 2 * id;
+    const p1 = p0 + 1;
     if (n.op === "input" || cutIds.has(id)) {
-      consider(id, 0, 0, { kind: "leaf" });
+      consider(p0, 0, K_LEAF, 0);
     } else if (n.op === "const0" || n.op === "const1") {
       const v = n.op === "const1" ? 1 : 0;
-      consider(id, 0, 0, { kind: "const", value: v });
-      consider(id, 1, 0, { kind: "const", value: v ? 0 : 1 });
+      consider(p0, 0, K_CONST, v);
+      consider(p1, 0, K_CONST, v ? 0 : 1);
       continue;
     } else if (n.op === "buf") {
       const f = n.fanins[0]!;
-      consider(id, 0, costOf[f]![0], { kind: "pass", from: f, pol: 0 });
-      consider(id, 1, costOf[f]![1], { kind: "pass", from: f, pol: 1 });
+      consider(p0, costOf[2 * f]!, K_PASS, 2 * f);
+      consider(p1, costOf[2 * f + 1]!, K_PASS, 2 * f + 1);
     } else if (n.op === "not") {
       const f = n.fanins[0]!;
-      consider(id, 0, costOf[f]![1], { kind: "pass", from: f, pol: 1 });
-      consider(id, 1, costOf[f]![0], { kind: "pass", from: f, pol: 0 });
+      consider(p0, costOf[2 * f + 1]!, K_PASS, 2 * f + 1);
+      consider(p1, costOf[2 * f]!, K_PASS, 2 * f);
     } else if (n.op === "and" || n.op === "or") {
       const k = n.fanins.length;
-      const sumPos = n.fanins.reduce((s, f) => s + costOf[f]![0], 0);
-      const sumNeg = n.fanins.reduce((s, f) => s + costOf[f]![1], 0);
-      const pos: [number, Pol][] = n.fanins.map((f) => [f, 0]);
-      const neg: [number, Pol][] = n.fanins.map((f) => [f, 1]);
+      let sumPos = 0;
+      let sumNeg = 0;
+      for (const f of n.fanins) {
+        sumPos += costOf[2 * f]!;
+        sumNeg += costOf[2 * f + 1]!;
+      }
+      // aux: the polarity every operand is taken in.
       if (n.op === "and") {
         // !AND(x) = NAND(x);  AND(x) = NOR(!x)
-        if (nandOk) consider(id, 1, cost("nand", k) + sumPos, { kind: "cell", fn: "nand", operands: pos });
-        if (norOk) consider(id, 0, cost("nor", k) + sumNeg, { kind: "cell", fn: "nor", operands: neg });
+        if (nandOk) consider(p1, cellCost("nand", k) + sumPos, K_NAND, 0);
+        if (norOk) consider(p0, cellCost("nor", k) + sumNeg, K_NOR, 1);
       } else {
         // !OR(x) = NOR(x);  OR(x) = NAND(!x)
-        if (norOk) consider(id, 1, cost("nor", k) + sumPos, { kind: "cell", fn: "nor", operands: pos });
-        if (nandOk) consider(id, 0, cost("nand", k) + sumNeg, { kind: "cell", fn: "nand", operands: neg });
+        if (norOk) consider(p1, cellCost("nor", k) + sumPos, K_NOR, 0);
+        if (nandOk) consider(p0, cellCost("nand", k) + sumNeg, K_NAND, 1);
       }
     } else if (n.op === "xor") {
       const [a, b] = n.fanins as [number, number];
-      const base = costOf[a]![0] + costOf[b]![0];
-      if (nandOk) consider(id, 0, 4 * cost("nand", 2) + base, { kind: "xor4", fn: "nand", a, b });
-      if (norOk) consider(id, 1, 4 * cost("nor", 2) + base, { kind: "xor4", fn: "nor", a, b });
+      const base = costOf[2 * a]! + costOf[2 * b]!;
+      if (nandOk) consider(p0, 4 * cellCost("nand", 2) + base, K_XOR_NAND, 0);
+      if (norOk) consider(p1, 4 * cellCost("nor", 2) + base, K_XOR_NOR, 0);
     }
     // Either polarity from the other through an inverter.
-    for (const pol of [0, 1] as const) {
-      const other = (1 - pol) as Pol;
-      consider(id, pol, costOf[id]![other] + invCost, { kind: "inv", fn: invFn });
-    }
+    consider(p0, costOf[p1]! + invCost, K_INV, 0);
+    consider(p1, costOf[p0]! + invCost, K_INV, 0);
   }
+  const choiceMemo: (Choice | undefined)[] = new Array(N2);
+  const choiceOf = (id: number, pol: Pol): Choice => {
+    const at = 2 * id + pol;
+    let ch = choiceMemo[at];
+    if (ch) return ch;
+    const aux = auxOf[at]!;
+    const n = g.nodes[id]!;
+    switch (kindOf[at]) {
+      case K_LEAF:
+        ch = { kind: "leaf" };
+        break;
+      case K_CONST:
+        ch = { kind: "const", value: aux as 0 | 1 };
+        break;
+      case K_PASS:
+        ch = { kind: "pass", from: aux >> 1, pol: (aux & 1) as Pol };
+        break;
+      case K_NAND:
+      case K_NOR:
+        ch = { kind: "cell", fn: kindOf[at] === K_NAND ? "nand" : "nor", operands: n.fanins.map((f) => [f, aux as Pol]) };
+        break;
+      case K_INV:
+        ch = { kind: "inv", fn: invFn };
+        break;
+      case K_XOR_NAND:
+      case K_XOR_NOR:
+        ch = { kind: "xor4", fn: kindOf[at] === K_XOR_NAND ? "nand" : "nor", a: n.fanins[0]!, b: n.fanins[1]! };
+        break;
+      default:
+        throw new Error("mapToCells: a node without a realization");
+    }
+    choiceMemo[at] = ch;
+    return ch;
+  };
 
   // ----- realization -------------------------------------------------------------------------
   const nets: Net[] = [];
@@ -222,23 +281,24 @@ function mapFamily(g: LogicGraph, source: LogicGraph, opts: MapOptions, allow: C
     return output;
   };
 
-  const memo: [number, number][] = g.nodes.map(() => [-1, -1]);
-  const netOfNode = (id: number): number => memo[id]![0];
+  // Net of each (node, polarity), at 2·id + polarity (-1: not realized yet).
+  const memo = new Int32Array(N2).fill(-1);
+  const netOfNode = (id: number): number => memo[2 * id]!;
   // Input and state nets first: names exactly as in the source.
   const inputs = g.inputs.map((p, port) => {
     const net = newNet({ kind: "input", port }, p.name, true);
-    memo[p.node]![0] = net;
+    memo[2 * p.node] = net;
     return net;
   });
   const stateNets: number[] = [];
   for (const id of cutIds) {
     const net = newNet({ kind: "tie", value: 0 }, g.nodes[id]!.name!, true); // driver bound below
-    memo[id]![0] = net;
+    memo[2 * id] = net;
     stateNets.push(net);
   }
 
   // Which (node, polarity) pairs are needed: top-down over the choices.
-  const need: [boolean, boolean][] = g.nodes.map(() => [false, false]);
+  const need = new Uint8Array(N2);
   const roots: [number, Pol][] = [
     ...g.outputs.map((p) => [p.node, 0] as [number, Pol]),
     ...[...cutIds].map((id) => [g.nodes[id]!.fanins[0]!, 0] as [number, Pol]),
@@ -246,9 +306,9 @@ function mapFamily(g: LogicGraph, source: LogicGraph, opts: MapOptions, allow: C
   const markStack = [...roots];
   while (markStack.length) {
     const [id, pol] = markStack.pop()!;
-    if (need[id]![pol]) continue;
-    need[id]![pol] = true;
-    const ch = choice[id]![pol]!;
+    if (need[2 * id + pol]) continue;
+    need[2 * id + pol] = 1;
+    const ch = choiceOf(id, pol);
     switch (ch.kind) {
       case "pass":
         markStack.push([ch.from, ch.pol]);
@@ -268,9 +328,9 @@ function mapFamily(g: LogicGraph, source: LogicGraph, opts: MapOptions, allow: C
   }
 
   const realize = (id: number, pol: Pol): number => {
-    const hit = memo[id]![pol];
+    const hit = memo[2 * id + pol]!;
     if (hit >= 0) return hit;
-    const ch = choice[id]![pol]!;
+    const ch = choiceOf(id, pol);
     const name = pol === 0 ? g.nodes[id]!.name : undefined;
     let net: number;
     switch (ch.kind) {
@@ -280,24 +340,24 @@ function mapFamily(g: LogicGraph, source: LogicGraph, opts: MapOptions, allow: C
         net = newNet({ kind: "tie", value: ch.value });
         break;
       case "pass":
-        net = memo[ch.from]![ch.pol];
+        net = memo[2 * ch.from + ch.pol]!;
         if (net < 0) throw new Error("operand realized out of order");
         break;
       case "inv": {
-        const other = memo[id]![1 - pol]!;
+        const other = memo[2 * id + (1 - pol)]!;
         if (other < 0) throw new Error("inverter operand realized out of order");
         net = addCell(ch.fn, [other], newNet({ kind: "tie", value: 0 }, name));
         break;
       }
       case "cell": {
-        const ins = ch.operands.map(([f, p]) => memo[f]![p]);
+        const ins = ch.operands.map(([f, p]) => memo[2 * f + p]!);
         if (ins.some((x) => x < 0)) throw new Error("cell operand realized out of order");
         net = addCell(ch.fn, ins, newNet({ kind: "tie", value: 0 }, name));
         break;
       }
       case "xor4": {
-        const a = memo[ch.a]![0];
-        const b = memo[ch.b]![0];
+        const a = memo[2 * ch.a]!;
+        const b = memo[2 * ch.b]!;
         const n1 = addCell(ch.fn, [a, b]);
         const n2 = addCell(ch.fn, [a, n1]);
         const n3 = addCell(ch.fn, [b, n1]);
@@ -305,18 +365,18 @@ function mapFamily(g: LogicGraph, source: LogicGraph, opts: MapOptions, allow: C
         break;
       }
     }
-    memo[id]![pol] = net;
+    memo[2 * id + pol] = net;
     return net;
   };
   // Bottom-up in evaluation order; for each node the polarity realized directly first, so an
   // inverter finds its operand.
   for (const id of order) {
     for (const pol of [0, 1] as const) {
-      if (!need[id]![pol] || memo[id]![pol] >= 0) continue;
-      const ch = choice[id]![pol]!;
+      if (!need[2 * id + pol] || memo[2 * id + pol]! >= 0) continue;
+      const ch = choiceOf(id, pol);
       if (ch.kind === "inv") {
         const other = (1 - pol) as Pol;
-        if (memo[id]![other] < 0) realize(id, other);
+        if (memo[2 * id + other]! < 0) realize(id, other);
       }
       realize(id, pol);
     }
@@ -324,6 +384,14 @@ function mapFamily(g: LogicGraph, source: LogicGraph, opts: MapOptions, allow: C
 
   // ----- binding state signals and outputs onto their named nets -------------------------------
   const reserved = new Set<number>([...inputs, ...stateNets]);
+  const stateNetSet = new Set(stateNets);
+  // Nets moved onto another (moveInto), and a node's net with the moves followed.
+  const movedTo = new Map<number, number>();
+  const netAt = (id: number, pol: Pol): number => {
+    let net = memo[2 * id + pol]!;
+    for (let next = movedTo.get(net); next !== undefined; next = movedTo.get(net)) net = next;
+    return net;
+  };
   const bufferInto = (from: number, target: number) => {
     const mid = addCell(invFn, [from]);
     addCell(invFn, [mid], target);
@@ -342,11 +410,12 @@ function mapFamily(g: LogicGraph, source: LogicGraph, opts: MapOptions, allow: C
     src.loads = [];
     src.driver = { kind: "tie", value: 0 };
     (src as Net & { dead?: boolean }).dead = true;
-    for (const m of memo) for (const p of [0, 1] as const) if (m[p] === from) m[p] = target;
+    // Every node realized as `from` is now realized as `target` (read through netAt).
+    movedTo.set(from, target);
   };
   const bindOnto = (from: number, target: number) => {
     const src = nets[from]!;
-    if (stateSet.has(src.name) && stateNets.includes(from)) bufferInto(from, target);
+    if (stateSet.has(src.name) && stateNetSet.has(from)) bufferInto(from, target);
     else if (src.driver.kind === "cell" && !reserved.has(from)) moveInto(from, target);
     else if (src.driver.kind === "cell") {
       // Duplicate the driving cell (cheaper than a buffer of two inverters).
@@ -359,11 +428,11 @@ function mapFamily(g: LogicGraph, source: LogicGraph, opts: MapOptions, allow: C
   };
   for (const id of cutIds) {
     const f = g.nodes[id]!.fanins[0]!;
-    bindOnto(memo[f]![0], memo[id]![0]);
+    bindOnto(netAt(f, 0), netAt(id, 0));
   }
   const outputs: { name: string; net: number }[] = [];
   g.outputs.forEach((p, i) => {
-    let net = memo[p.node]![0];
+    let net = netAt(p.node, 0);
     if (reserved.has(net)) {
       if (nets[net]!.outputPort === undefined && nets[net]!.name === p.name) {
         // A state signal that is also this output: the same net.

@@ -7,7 +7,8 @@ import { buildForm, type Form } from "./form.js";
 
 export class GraphBuilder {
   readonly nodes: LogicNode[] = [];
-  private readonly table = new Map<string, number>();
+  /** Structural hashing: nodes by a hash of (op, operands); equal hashes are compared. */
+  private readonly table = new Map<number, number | number[]>();
   private c0 = -1;
   private c1 = -1;
 
@@ -39,11 +40,24 @@ export class GraphBuilder {
   }
 
   private hashed(op: LogicOp, fanins: number[]): number {
-    const key = op + ":" + fanins.join(",");
-    const hit = this.table.get(key);
-    if (hit !== undefined) return hit;
+    let h = op === "and" ? 0x3c6ef372 : op === "or" ? 0x5be0cd19 : op === "xor" ? 0x1f83d9ab : 0x6a09e667;
+    for (const f of fanins) h = Math.imul(h ^ f, 0x01000193) ^ (h >>> 13);
+    const same = (id: number) => {
+      const n = this.nodes[id]!;
+      if (n.op !== op || n.fanins.length !== fanins.length) return false;
+      for (let i = 0; i < fanins.length; i++) if (n.fanins[i] !== fanins[i]) return false;
+      return true;
+    };
+    const hit = this.table.get(h);
+    if (hit !== undefined) {
+      if (typeof hit === "number") {
+        if (same(hit)) return hit;
+      } else for (const id of hit) if (same(id)) return id;
+    }
     const id = this.nodes.push({ op, fanins }) - 1;
-    this.table.set(key, id);
+    if (hit === undefined) this.table.set(h, id);
+    else if (typeof hit === "number") this.table.set(h, [hit, id]);
+    else hit.push(id);
     return id;
   }
 
@@ -285,7 +299,7 @@ export function liveNodes(g: LogicGraph, cutIds: ReadonlySet<number>): Uint8Arra
     const id = stack.pop()!;
     if (live[id]) continue;
     live[id] = 1;
-    stack.push(...g.nodes[id]!.fanins);
+    for (const each of g.nodes[id]!.fanins) stack.push(each);
   }
   for (const p of g.inputs) live[p.node] = 1;
   return live;

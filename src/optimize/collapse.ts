@@ -53,7 +53,7 @@ function coneLiterals(f: GraphFacts, roots: readonly number[]): number {
     const n = f.g.nodes[id]!;
     if (n.op === "and" || n.op === "or") k += n.fanins.length;
     else if (n.op === "xor") k += 4 * n.fanins.length;
-    stack.push(...n.fanins);
+    for (const each of n.fanins) stack.push(each);
   }
   return k;
 }
@@ -421,7 +421,7 @@ function collapseRegions(g: LogicGraph, ctx: CollapseOptions): LogicGraph {
       if (seen.has(id)) continue;
       seen.add(id);
       inner++;
-      stack.push(...g.nodes[id]!.fanins);
+      for (const each of g.nodes[id]!.fanins) stack.push(each);
     }
     if (inner < 2) continue;
     if (evaluations >= L.maxEvaluations) break;

@@ -20,7 +20,7 @@ export function flattenTrees(g: LogicGraph, stateNames: readonly string[], maxFa
       const inner = b.nodes[operands[i]!]!;
       const mergeable = child.op === node.op && readers[f] === 1 && !pinned.has(f) && inner.op === node.op;
       if (mergeable && flat.length + inner.fanins.length + (node.fanins.length - i - 1) <= maxFanin) {
-        flat.push(...inner.fanins);
+        for (const each of inner.fanins) flat.push(each);
       } else flat.push(operands[i]!);
     });
     void id;

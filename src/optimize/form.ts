@@ -64,7 +64,7 @@ export function formLeaves(form: Form): Set<number> {
     const f = stack.pop()!;
     if (f.t === "lit") s.add(f.v);
     else if (f.t === "not") stack.push(f.arg);
-    else if (f.t !== "const") stack.push(...f.args);
+    else if (f.t !== "const") for (const each of f.args) stack.push(each);
   }
   return s;
 }
@@ -77,7 +77,7 @@ export function formLiterals(form: Form): number {
     const f = stack.pop()!;
     if (f.t === "lit") k++;
     else if (f.t === "not") stack.push(f.arg);
-    else if (f.t !== "const") stack.push(...f.args);
+    else if (f.t !== "const") for (const each of f.args) stack.push(each);
   }
   return k;
 }

@@ -28,8 +28,9 @@ import { expandXors } from "./xor-expand.js";
 import { resubstitute } from "./resub.js";
 import { extractCommon } from "./extract.js";
 import { factorNodes } from "./factor.js";
-import { mappedCost, mappedTally, type MappingTarget } from "./cost.js";
-import { DEFAULT_OPTIMIZE_LIMITS, type OptimizeLimits, type PassContext } from "./context.js";
+import { mappedTally, type MappingTarget } from "./cost.js";
+import type { PartTally } from "../map/cost.js";
+import { DEFAULT_OPTIMIZE_LIMITS, structuralCost, type OptimizeLimits, type PassContext } from "./context.js";
 import { emptyTwoLevelCounts, type OptimizationNote, type OptimizationReport, type OptLevel, type PassRecord } from "./report.js";
 
 export interface OptimizeOptions {
@@ -46,6 +47,8 @@ export interface OptimizeOptions {
   /** Wired-AND outputs in the mapping (default off). */
   wiredAnd?: boolean;
   limits?: Partial<OptimizeLimits>;
+  /** Nodes above which the large-design way is taken (default LARGE_DESIGN_NODES). */
+  largeDesignNodes?: number;
 }
 
 export interface OptimizeResult {
@@ -62,8 +65,37 @@ const MAX_NOTE_DIAGNOSTICS = 12;
  *  maxEvaluations, never fewer than MIN_EVALUATIONS). Keeps large designs to seconds. */
 export const WORK_PER_PASS = 150_000;
 const MIN_EVALUATIONS = 4;
+/** Above this many nodes a design is optimized in the large-design way (see optimizeDesign):
+ *  local passes only, priced by a structural estimate, the result mapped once. */
+export const LARGE_DESIGN_NODES = 50_000;
 /** Prices remembered per run (a candidate graph met twice is mapped once). */
 const COST_CACHE_SIZE = 2000;
+
+const OP_CODES: Record<string, number> = { input: 1, const0: 2, const1: 3, buf: 4, not: 5, and: 6, or: 7, xor: 8 };
+
+/**
+ * A short key of a graph's structure (operations, operands, output nodes): two independent
+ * 32-bit hashes and the sizes, so the cache holds a few dozen characters a graph, not a copy of
+ * it. Graphs with equal keys are taken as equal (the chance of two different graphs meeting on
+ * 64 bits and the sizes is negligible).
+ */
+function structureKey(x: LogicGraph): string {
+  let h1 = 0x811c9dc5;
+  let h2 = 0x9747b28c;
+  const mix = (v: number) => {
+    h1 = Math.imul(h1 ^ v, 0x01000193);
+    h2 = Math.imul(h2 ^ v, 0x5bd1e995);
+    h2 ^= h2 >>> 15;
+  };
+  for (const n of x.nodes) {
+    mix(OP_CODES[n.op] ?? 0);
+    mix(n.fanins.length);
+    for (const f of n.fanins) mix(f + 1);
+  }
+  mix(0xfffffff);
+  for (const p of x.outputs) mix(p.node + 1);
+  return `${x.nodes.length}:${x.outputs.length}:${(h1 >>> 0).toString(36)}:${(h2 >>> 0).toString(36)}`;
+}
 
 export function optimizeDesign(g: LogicGraph, opts: OptimizeOptions): OptimizeResult {
   const level: OptLevel = opts.level ?? 2;
@@ -77,17 +109,18 @@ export function optimizeDesign(g: LogicGraph, opts: OptimizeOptions): OptimizeRe
     wiredAnd: !!opts.wiredAnd,
   };
   // Prices by graph structure: passes often rebuild a graph they have seen before.
-  const cache = new Map<string, number>();
-  const cost = (x: LogicGraph) => {
-    const key = x.nodes.map((n) => `${n.op}${n.fanins.join(",")}`).join(";") + "|" + x.outputs.map((p) => p.node).join(",");
+  const cache = new Map<string, PartTally>();
+  const tallyOf = (x: LogicGraph): PartTally => {
+    const key = structureKey(x);
     const hit = cache.get(key);
     if (hit !== undefined) return hit;
-    const c = mappedCost(x, target);
+    const t = mappedTally(x, target);
     if (cache.size >= COST_CACHE_SIZE) cache.clear();
-    cache.set(key, c);
-    return c;
+    cache.set(key, t);
+    return t;
   };
-  const before = mappedTally(g, target);
+  const cost = (x: LogicGraph) => tallyOf(x).cost;
+  const before = tallyOf(g);
   const notes: OptimizationNote[] = [];
   const counts = emptyTwoLevelCounts();
   const passes: PassRecord[] = [];
@@ -101,12 +134,19 @@ export function optimizeDesign(g: LogicGraph, opts: OptimizeOptions): OptimizeRe
       diagnostics.push(diag("GW3005", `the don't-cares of '${set.signal}' are not used: ${reason}; its value there stays as written`, file));
     }
   }
-  const ctx: PassContext = { stateNames: opts.stateNames, cost, notes, counts, dontCares: use.usable };
+  // A large design: pricing every pass by mapping the whole graph would cost more than the
+  // passes; they are priced by a structural estimate instead, only the passes whose work grows
+  // in proportion to the graph run, and the result is mapped once at the end and kept only if
+  // it is cheaper than the logic as written.
+  const largeAbove = opts.largeDesignNodes ?? LARGE_DESIGN_NODES;
+  const large = level >= 1 && g.nodes.length > largeAbove;
+  const price = large ? (x: LogicGraph) => structuralCost(x, opts.stateNames) : cost;
+  const ctx: PassContext = { stateNames: opts.stateNames, cost: price, notes, counts, dontCares: use.usable };
   const baseLimits = { ...DEFAULT_OPTIMIZE_LIMITS, ...(opts.limits ?? {}) };
-  let budgetNoted = false;
+  let budgetNoted = large;
 
   let cur = g;
-  let curCost = before.cost;
+  let curCost = large ? price(g) : before.cost;
   const step = (pass: string, run: (x: LogicGraph) => LogicGraph, acceptEqual = false) => {
     const evaluations = Math.max(MIN_EVALUATIONS, Math.min(baseLimits.maxEvaluations, Math.floor(WORK_PER_PASS / Math.max(1, cur.nodes.length))));
     if (evaluations < baseLimits.maxEvaluations && !budgetNoted && level === 2) {
@@ -119,7 +159,7 @@ export function optimizeDesign(g: LogicGraph, opts: OptimizeOptions): OptimizeRe
       passes.push({ pass, costBefore: curCost, costAfter: curCost, accepted: false });
       return;
     }
-    const c = cost(next);
+    const c = price(next);
     const accepted = c < curCost || (acceptEqual && c === curCost);
     passes.push({ pass, costBefore: curCost, costAfter: c, accepted });
     if (accepted) {
@@ -133,7 +173,11 @@ export function optimizeDesign(g: LogicGraph, opts: OptimizeOptions): OptimizeRe
     step("inverters", (x) => minimizeInverters(x, ctx));
     step("flatten", (x) => simplifyLogic(flattenTrees(x, sn, opts.maxFanin), sn), true);
   }
-  if (level >= 2) {
+  if (level >= 2 && large) {
+    step("sweep", (x) => sweepEquivalent(x, ctx));
+    step("collapse regions", (x) => collapseTwoLevel(x, { ...ctx, mode: "regions" }));
+    step("flatten", (x) => simplifyLogic(flattenTrees(x, sn, opts.maxFanin), sn), true);
+  } else if (level >= 2) {
     step("sweep", (x) => sweepEquivalent(x, ctx));
     step("collapse", (x) => collapseTwoLevel(x, ctx));
     step("collapse regions", (x) => collapseTwoLevel(x, { ...ctx, mode: "regions" }));
@@ -143,7 +187,22 @@ export function optimizeDesign(g: LogicGraph, opts: OptimizeOptions): OptimizeRe
     step("factor", (x) => factorNodes(x, ctx));
     step("flatten", (x) => simplifyLogic(flattenTrees(x, sn, opts.maxFanin), sn), true);
   }
-  const after = level === 0 ? before : mappedTally(cur, target);
+  let after = level === 0 ? before : tallyOf(cur);
+  if (large) {
+    const kept = cur === g || after.cost <= before.cost;
+    if (!kept) {
+      cur = g;
+      after = before;
+    }
+    notes.push({
+      kind: "heuristic",
+      pass: "optimize",
+      message:
+        `a large design (${g.nodes.length} nodes, more than ${largeAbove}): the passes were priced by a structural estimate of the parts instead of by mapping, ` +
+        `and only ${level >= 2 ? "simplify, inverters, flatten, sweep and collapse regions" : "simplify, inverters and flatten"} ran (not two-level collapse of whole cones, XOR expansion, resubstitution, extraction or factoring); ` +
+        `the result was mapped once and ${kept ? "kept: it costs no more than the logic as written" : "dropped: it cost more than the logic as written"}`,
+    });
+  }
   const shown = notes.filter((n) => n.kind === "heuristic" || n.kind === "limit" || n.kind === "hazard");
   for (const n of shown.slice(0, MAX_NOTE_DIAGNOSTICS)) diagnostics.push(diag("GW3006", n.message, file));
   if (shown.length > MAX_NOTE_DIAGNOSTICS) diagnostics.push(diag("GW3006", `${shown.length - MAX_NOTE_DIAGNOSTICS} more optimization notes in the report`, file));

@@ -29,7 +29,7 @@ export function countInverters(g: LogicGraph): number {
     const id = stack.pop()!;
     if (live[id]) continue;
     live[id] = 1;
-    stack.push(...g.nodes[id]!.fanins);
+    for (const each of g.nodes[id]!.fanins) stack.push(each);
   }
   return g.nodes.filter((n, id) => live[id] && n.op === "not").length;
 }

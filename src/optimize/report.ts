@@ -34,6 +34,8 @@ export interface OptimizationReport {
   before: PartTally;
   /** The logic the optimizer hands on, mapped with the same options. */
   after: PartTally;
+  /** With wired-AND outputs: the same logic mapped without them (the saving is the difference). */
+  afterWithoutWiredAnd?: PartTally;
   passes: PassRecord[];
   notes: OptimizationNote[];
   /** Two-level minimization: how many cones each way. */

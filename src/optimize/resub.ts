@@ -11,7 +11,7 @@ import { costOf, limitsOf, note, type PassContext } from "./context.js";
 import { twoLevelCandidates } from "./candidates.js";
 import { formLiterals, type Form } from "./form.js";
 import { DC, OFF, ON } from "./sop/cube.js";
-import { graphFacts, simulateOver, stateConeNodes, supportOf } from "./tables.js";
+import { graphFacts, simulateOver, stateConeNodes, supportOf, type GraphFacts } from "./tables.js";
 
 const MAX_CHECKS = 8_000;
 const TRIED_PER_OUTPUT = 6;
@@ -22,34 +22,43 @@ export function resubstitute(g: LogicGraph, ctx: PassContext): LogicGraph {
   let cur = g;
   let curCost = cost(cur);
   let evaluations = 0;
+  // The facts of the current graph, made again only when a port's rewrite is kept.
+  let facts: { g: LogicGraph; f: GraphFacts; inState: Uint8Array; leaves: number[] } | undefined;
   for (let port = 0; port < g.outputs.length; port++) {
     if (evaluations >= L.maxEvaluations) {
       note(ctx, { kind: "limit", pass: "resub", message: `evaluation budget (${L.maxEvaluations}) reached` });
       break;
     }
-    const f = graphFacts(cur, ctx.stateNames);
+    if (facts?.g !== cur) {
+      const f0 = graphFacts(cur, ctx.stateNames);
+      // Nodes without operands that are no free variable (constants, an input without a port):
+      // they add nothing to a support.
+      const leaves: number[] = [];
+      cur.nodes.forEach((n, id) => {
+        if (n.fanins.length === 0 && !f0.free.has(id)) leaves.push(id);
+      });
+      facts = { g: cur, f: f0, inState: stateConeNodes(f0), leaves };
+    }
+    const { f, inState } = facts;
     const t = cur.outputs[port]!.node;
     const op = cur.nodes[t]!.op;
     if (f.free.has(t) || op === "const0" || op === "const1" || op === "input") continue;
-    const inState = stateConeNodes(f);
     if (inState[t]) continue;
     const S = supportOf(f, t, undefined, L.resubMaxVariables);
     if (!S || S.length < 2) continue;
     // Nodes that depend on t cannot be divisors.
-    const after = new Uint8Array(cur.nodes.length);
+    const after = new Set<number>();
     const stack = [t];
     while (stack.length) {
       const id = stack.pop()!;
-      if (after[id]) continue;
-      after[id] = 1;
-      stack.push(...f.readers[id]!);
+      if (after.has(id)) continue;
+      after.add(id);
+      for (const each of f.readers[id]!) stack.push(each);
     }
-    const Sset = new Set(S);
     const divisors: { id: number; size: number }[] = [];
-    cur.nodes.forEach((n, id) => {
-      if (after[id] || f.free.has(id) || n.op === "input" || n.op === "const0" || n.op === "const1" || n.op === "buf") return;
-      const s = supportOf(f, id, undefined, S.length);
-      if (!s || !s.every((v) => Sset.has(v))) return;
+    for (const id of nodesOverSupport(f, S, facts.leaves)) {
+      const n = cur.nodes[id]!;
+      if (after.has(id) || f.free.has(id) || n.op === "input" || n.op === "const0" || n.op === "const1" || n.op === "buf") continue;
       // Size: nodes in its cone (bigger divisors say more).
       let size = 0;
       const seen = new Set<number>();
@@ -59,10 +68,10 @@ export function resubstitute(g: LogicGraph, ctx: PassContext): LogicGraph {
         if (seen.has(x) || f.free.has(x)) continue;
         seen.add(x);
         size++;
-        st.push(...cur.nodes[x]!.fanins);
+        for (const each of cur.nodes[x]!.fanins) st.push(each);
       }
       divisors.push({ id, size });
-    });
+    }
     divisors.sort((a, b) => b.size - a.size || a.id - b.id);
     const divs = divisors.slice(0, L.resubMaxDivisors).map((d) => d.id);
     if (divs.length === 0) continue;
@@ -113,4 +122,41 @@ export function resubstitute(g: LogicGraph, ctx: PassContext): LogicGraph {
     }
   }
   return cur;
+}
+
+/**
+ * The nodes whose support lies within S (free variables), in no particular order: forward from
+ * S and from the nodes without operands, a node is taken when all its operands are. Work in
+ * proportion to the readers of the nodes taken, not to the graph.
+ */
+function nodesOverSupport(f: GraphFacts, S: readonly number[], leaves: readonly number[]): number[] {
+  const inside = new Set<number>();
+  const waiting = new Map<number, number>();
+  const queue: number[] = [];
+  for (const v of S) {
+    inside.add(v);
+    queue.push(v);
+  }
+  for (const id of leaves) {
+    inside.add(id);
+    queue.push(id);
+  }
+  const out: number[] = [];
+  for (let head = 0; head < queue.length; head++) {
+    const x = queue[head]!;
+    for (const r of f.readers[x]!) {
+      if (inside.has(r) || f.free.has(r)) continue;
+      const left = (waiting.get(r) ?? f.g.nodes[r]!.fanins.length) - 1;
+      if (left > 0) {
+        waiting.set(r, left);
+        continue;
+      }
+      waiting.delete(r);
+      inside.add(r);
+      out.push(r);
+      queue.push(r);
+    }
+  }
+  for (const id of leaves) out.push(id);
+  return out;
 }

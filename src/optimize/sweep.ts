@@ -6,7 +6,8 @@
 // (a & b) | (a & !b) and a. Logic that feeds a loop is not merged (its terms may be there to
 // cover hazards).
 import type { LogicGraph } from "../logic/graph.js";
-import { seededRandom, simulateWords } from "../logic/evaluate.js";
+import { seededRandom } from "../logic/evaluate.js";
+import { runWordProgram, wordProgram } from "../logic/words.js";
 import { rebuildWith, type Replacement } from "./builder.js";
 import { limitsOf, type PassContext } from "./context.js";
 import { constant, lit } from "./form.js";
@@ -36,14 +37,17 @@ export function sweepEquivalent(g: LogicGraph, ctx: PassContext): LogicGraph {
       values = values.map((w) => (w ? Uint32Array.from(w, (x) => (x & mask) >>> 0) : w));
     }
   } else {
+    // One flat buffer for the whole graph (src/logic/words.ts); each node's words a view.
     const rand = seededRandom(0x51eed);
-    const free = new Map<number, Uint32Array>();
-    for (const id of f.free) {
-      const w = new Uint32Array(WORDS);
-      for (let k = 0; k < WORDS; k++) w[k] = rand();
-      free.set(id, w);
-    }
-    values = simulateWords(g, f.order, free, WORDS);
+    const slotOf = new Int32Array(g.nodes.length);
+    for (let id = 0; id < g.nodes.length; id++) slotOf[id] = id;
+    const freeVar = new Int32Array(g.nodes.length).fill(-1);
+    for (const id of f.free) freeVar[id] = 0;
+    const program = wordProgram(g, f.order, slotOf, freeVar);
+    const buf = new Uint32Array(g.nodes.length * WORDS);
+    for (const id of f.free) for (let k = 0; k < WORDS; k++) buf[id * WORDS + k] = rand();
+    runWordProgram(program, buf, WORDS);
+    values = g.nodes.map((_, id) => buf.subarray(id * WORDS, (id + 1) * WORDS));
   }
   let proofs = 0;
   const classes = new Map<string, number>();

@@ -3,7 +3,8 @@
 // truth tables of nodes over a chosen set of variables (bit-parallel simulation).
 import type { LogicGraph } from "../logic/graph.js";
 import { evaluationOrder } from "../logic/loops.js";
-import { enumerationWords, simulateWords } from "../logic/evaluate.js";
+import { enumerationWords } from "../logic/evaluate.js";
+import { runWordProgram, wordProgram } from "../logic/words.js";
 import { DC, OFF, ON, type Spec } from "./sop/cube.js";
 
 export interface GraphFacts {
@@ -14,6 +15,26 @@ export interface GraphFacts {
   free: Set<number>;
   order: number[];
   readers: number[][];
+  /** Position of each node in `order` (made when first needed). */
+  pos?: Int32Array;
+}
+
+const scratch = new WeakMap<GraphFacts, { slotOf: Int32Array; freeVar: Int32Array }>();
+
+/** Per-node arrays simulateOver reuses (freeVar all -1 between calls). */
+function scratchOf(f: GraphFacts): { slotOf: Int32Array; freeVar: Int32Array } {
+  let s = scratch.get(f);
+  if (!s) scratch.set(f, (s = { slotOf: new Int32Array(f.g.nodes.length), freeVar: new Int32Array(f.g.nodes.length).fill(-1) }));
+  return s;
+}
+
+function positions(f: GraphFacts): Int32Array {
+  if (!f.pos) {
+    const pos = new Int32Array(f.g.nodes.length);
+    f.order.forEach((id, k) => (pos[id] = k));
+    f.pos = pos;
+  }
+  return f.pos;
 }
 
 export function graphFacts(g: LogicGraph, stateNames: readonly string[]): GraphFacts {
@@ -45,7 +66,10 @@ export function supportOf(f: GraphFacts, root: number, stops?: ReadonlySet<numbe
   const out: number[] = [];
   const seen = new Set<number>();
   const stack = f.free.has(root) ? [root] : [...f.g.nodes[root]!.fanins];
-  if (f.cuts.has(root)) stack.splice(0, stack.length, ...f.g.nodes[root]!.fanins);
+  if (f.cuts.has(root)) {
+    stack.length = 0;
+    for (const each of f.g.nodes[root]!.fanins) stack.push(each);
+  }
   while (stack.length) {
     const id = stack.pop()!;
     if (seen.has(id)) continue;
@@ -57,7 +81,7 @@ export function supportOf(f: GraphFacts, root: number, stops?: ReadonlySet<numbe
     }
     const n = f.g.nodes[id]!;
     if (n.op === "const0" || n.op === "const1") continue;
-    stack.push(...n.fanins);
+    for (const each of n.fanins) stack.push(each);
   }
   return out.sort((a, b) => a - b);
 }
@@ -66,12 +90,12 @@ export function supportOf(f: GraphFacts, root: number, stops?: ReadonlySet<numbe
 export function stateConeNodes(f: GraphFacts): Uint8Array {
   const mark = new Uint8Array(f.g.nodes.length);
   const stack: number[] = [];
-  for (const c of f.cuts) stack.push(...f.g.nodes[c]!.fanins);
+  for (const c of f.cuts) for (const each of f.g.nodes[c]!.fanins) stack.push(each);
   while (stack.length) {
     const id = stack.pop()!;
     if (mark[id] || f.free.has(id)) continue;
     mark[id] = 1;
-    stack.push(...f.g.nodes[id]!.fanins);
+    for (const each of f.g.nodes[id]!.fanins) stack.push(each);
   }
   return mark;
 }
@@ -86,24 +110,37 @@ export function simulateOver(f: GraphFacts, vars: readonly number[], roots: read
   const words = Math.max(1, 2 ** Math.max(0, n - 5));
   const forced = new Map<number, Uint32Array>();
   vars.forEach((v, i) => forced.set(v, enumerationWords(i, words)));
-  const needed = new Uint8Array(f.g.nodes.length);
+  // The cone's nodes alone, in evaluation order (work in proportion to the cone, not the graph).
+  const needed = new Set<number>();
   const stack: number[] = [];
   // A state signal as a root stands for its next value: its operands are what is needed.
   for (const r of roots) {
-    if (f.cuts.has(r)) stack.push(...f.g.nodes[r]!.fanins);
+    if (f.cuts.has(r)) for (const each of f.g.nodes[r]!.fanins) stack.push(each);
     else stack.push(r);
   }
   while (stack.length) {
     const id = stack.pop()!;
-    if (needed[id]) continue;
-    needed[id] = 1;
+    if (needed.has(id)) continue;
+    needed.add(id);
     if (forced.has(id) || f.free.has(id)) continue;
-    stack.push(...f.g.nodes[id]!.fanins);
+    for (const each of f.g.nodes[id]!.fanins) stack.push(each);
   }
-  const zero = new Uint32Array(words);
-  for (const id of f.free) if (needed[id] && !forced.has(id)) forced.set(id, zero);
-  // Forced nodes need not come first in the order: simulateWords takes the given words as is.
-  const values = simulateWords(f.g, f.order, forced, words, needed);
+  const pos = positions(f);
+  const order = [...needed].sort((a, b) => pos[a]! - pos[b]!);
+  // One flat buffer for the cone (src/logic/words.ts): forced and free nodes hold their words
+  // (free variables outside `vars` read 0), the others are computed; each node's words a view.
+  const { slotOf, freeVar } = scratchOf(f);
+  order.forEach((id, k) => {
+    slotOf[id] = k;
+    if (forced.has(id) || f.free.has(id)) freeVar[id] = 0;
+  });
+  const program = wordProgram(f.g, order, slotOf, freeVar);
+  const buf = new Uint32Array(order.length * words);
+  for (const [id, w] of forced) if (needed.has(id)) buf.set(w, slotOf[id]! * words);
+  runWordProgram(program, buf, words);
+  for (const id of order) freeVar[id] = -1;
+  const values: (Uint32Array | undefined)[] = new Array(f.g.nodes.length);
+  order.forEach((id, k) => (values[id] = buf.subarray(k * words, (k + 1) * words)));
   return { words, values };
 }
 

@@ -19,12 +19,20 @@ import { clockedStepSeconds, estimateSequentialTiming, type SequentialTiming } f
 export function checkFeedbackHazards(source: LogicGraph, built: LogicGraph, state: StateAnalysis | undefined, keptNames: readonly string[]): { hazards: StaticHazard[]; diagnostics: Diagnostic[] } {
   const diagnostics: Diagnostic[] = [];
   if (!state || state.loops.length === 0) return { hazards: [], diagnostics };
-  const onLoops = [...new Set(state.loops.flatMap((l) => l.signals))].filter((s) => keptNames.includes(s));
+  const kept = new Set(keptNames);
+  const onLoops = [...new Set(state.loops.flatMap((l) => l.signals))].filter((s) => kept.has(s));
   const boundary = [...keptNames];
   const builtReport = findStaticHazards(built, onLoops, boundary);
   const sourceReport = findStaticHazards(source, onLoops, boundary);
   const inSource = new Set(sourceReport.hazards.map((h) => `${h.signal}|${h.variable}`));
-  const spanOf = (name: string) => source.nodes.find((n) => n.name === name)?.span;
+  const firstByName = new Map<string, number>();
+  source.nodes.forEach((n, id) => {
+    if (n.name !== undefined && !firstByName.has(n.name)) firstByName.set(n.name, id);
+  });
+  const spanOf = (name: string) => {
+    const id = firstByName.get(name);
+    return id === undefined ? undefined : source.nodes[id]!.span;
+  };
   for (const h of builtReport.hazards) {
     const held = Object.entries(h.held).map(([k, v]) => `${k} = ${v}`).join(", ");
     const fromSource = inSource.has(`${h.signal}|${h.variable}`);
@@ -100,7 +108,7 @@ export function planTestbench(g: LogicGraph, design: SizedDesign, state: StateAn
     // The walk starts with the first vector (in its own order, the clock low) under which the
     // initial values hold.
     initial = initialState(g, { initials: state.initials, stateNames, candidates: startCandidates(g, state.clocking.clock, opts.exhaustiveLimit ?? 10) });
-    diagnostics.push(...initial.diagnostics);
+    for (const each of initial.diagnostics) diagnostics.push(each);
     stimOpts.firstVector = initial.firstVector;
     stimOpts.initial = initial.values;
     stimOpts.held = initial.held;
@@ -117,7 +125,7 @@ export function planTestbench(g: LogicGraph, design: SizedDesign, state: StateAn
       ...(state.clocking.clock !== undefined ? { clock: state.clocking.clock } : {}),
       clocked: state.clocking.clocked,
     });
-    if (timing) notes.push(...timing.notes);
+    if (timing) for (const each of timing.notes) notes.push(each);
   }
   const stimulus = makeStimulus(g, stimOpts);
   let stepSeconds = opts.stepSeconds ?? (stimulus.clock ? clockedStepSeconds(opts.baseStepSeconds, timing) : opts.baseStepSeconds);

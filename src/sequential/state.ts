@@ -46,7 +46,7 @@ export function analyzeState(src: DesignSource, g: LogicGraph, elements: StateEl
     if (id !== undefined) preferred.add(id);
   }
   const fb = analyzeFeedback(g, { ...(src.oscillators ? { oscillators: src.oscillators } : {}), preferred });
-  diagnostics.push(...fb.diagnostics);
+  for (const each of fb.diagnostics) diagnostics.push(each);
 
   // Loops inside one element are the element's business; the others are reported as loops.
   const elementOf = new Map<string, string>();
@@ -127,7 +127,7 @@ export function analyzeState(src: DesignSource, g: LogicGraph, elements: StateEl
   }
 
   const clocking = analyzeClocking(src, elements);
-  diagnostics.push(...clocking.diagnostics);
+  for (const each of clocking.diagnostics) diagnostics.push(each);
 
   const kept: string[] = [];
   const keptSet = new Set<string>();

@@ -72,7 +72,7 @@ function inlineLines(
       return;
     }
     out.push(`* begin include "${name}"`);
-    out.push(...inlineLines(bodyOfIncludedFile(text), files, [...stack, key], false));
+    for (const each of inlineLines(bodyOfIncludedFile(text), files, [...stack, key], false)) out.push(each);
     out.push(`* end include "${name}"`);
   });
   return out;

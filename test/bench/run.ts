@@ -208,6 +208,7 @@ async function child(job: Job): Promise<void> {
       cells: netlist.cells.length,
       outputBytes: files.reduce((s, f) => s + Buffer.byteLength(f.content), 0),
       partialCones: eq.cones.filter((c) => !c.exhaustive).length,
+      workLimitedCones: eq.cones.filter((c) => c.limitedBy === "work").length,
       vectors: plan.stimulus.vectors.length,
     };
   }
