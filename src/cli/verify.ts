@@ -5,34 +5,27 @@
 import { existsSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import type { Argv } from "yargs";
-import { diag, hasErrors, type Diagnostic } from "../diagnostics/index.js";
-import { parsePartsFile } from "../electrical/devices.js";
+import { appendDiagnostics, diag, hasErrors, type Diagnostic } from "../diagnostics/index.js";
 import { fileNamesOf } from "../emit/index.js";
-import { synthesize, type SynthesisOptions } from "../pipeline/synthesize.js";
+import { synthesize } from "../pipeline/synthesize.js";
 import { TOOL } from "../pipeline/tool.js";
 import { embeddedSimulator, simulatorMissing, systemSimulator, type Simulator } from "../simulate/engine.js";
 import { bomCsvWithBypass, bomMarkdownWithBypass } from "../verify/decoupling.js";
 import { filesWithInputHash, storedInputHash, synthesisHash } from "../verify/reuse.js";
 import { renderSummary, renderVerifyReport, verifyJson } from "../verify/summary.js";
 import { verifyDesign, type VerifyProgress } from "../verify/verify.js";
-import { sizingOptionsFrom, type RawSizingArgs } from "./options.js";
-import { optimizeOptionsFrom, type RawOptimizeArgs } from "./optimize-options.js";
+import { prepareSynthesis, wholeNumberOption, type SynthesisArgs } from "./options.js";
 import { printDiagnostics } from "./print.js";
-import { readText, writeOutputs } from "./write.js";
+import { writeOutputs } from "./write.js";
 
-export interface VerifyArgs extends RawSizingArgs, RawOptimizeArgs {
-  file: string;
+export interface VerifyArgs extends SynthesisArgs {
   out: string;
-  top?: string;
-  "max-fanin": number;
-  cells: "mixed" | "nand" | "nor";
-  parts?: string;
   corners?: boolean;
   simulator: "embedded" | "system";
   ngspice?: string;
   json?: boolean;
   decoupling?: boolean;
-  "max-steps"?: number;
+  "max-steps"?: number | string;
   plots?: boolean;
   force?: boolean;
   quiet?: boolean;
@@ -48,11 +41,11 @@ export interface VerifyIo {
 export function verifyFlags<T>(y: Argv<T>) {
   return y
     .positional("file", { type: "string", describe: "a .logic equation file or a .v structural Verilog file", demandOption: true })
-    .option("out", { alias: "o", type: "string", describe: "folder for the outputs and plots", default: "out" })
+    .option("out", { alias: "o", type: "string", requiresArg: true, describe: "folder for the outputs and plots", default: "out" })
     .option("corners", { type: "boolean", describe: "also run every corner: supply min/max × temperature extremes × slow/fast transistor", group: "Verify:" })
-    .option("simulator", { choices: ["embedded", "system"] as const, describe: "ngspice compiled to WebAssembly (no install), or the system ngspice in batch mode", default: "embedded" as const, group: "Verify:" })
-    .option("ngspice", { type: "string", describe: "the system ngspice program", defaultDescription: "ngspice on the PATH", group: "Verify:" })
-    .option("max-steps", { type: "number", describe: "most test vectors a run applies", defaultDescription: "from the design's size, so a run stays within minutes", group: "Verify:" })
+    .option("simulator", { choices: ["embedded", "system"] as const, requiresArg: true, describe: "ngspice compiled to WebAssembly (no install), or the system ngspice in batch mode", default: "embedded" as const, group: "Verify:" })
+    .option("ngspice", { type: "string", requiresArg: true, describe: "the system ngspice program", defaultDescription: "ngspice on the PATH", group: "Verify:" })
+    .option("max-steps", { type: "string", requiresArg: true, describe: "most test vectors a run applies", defaultDescription: "from the design's size, so a run stays within minutes", group: "Verify:" })
     .option("decoupling", { type: "boolean", describe: "add the recommended bypass capacitors to the parts list", group: "Verify:" })
     .option("plots", { type: "boolean", describe: "write SVG plots (--no-plots to skip them)", default: true, group: "Verify:" })
     .option("json", { type: "boolean", describe: "print the results as JSON instead of the summary", group: "Verify:" })
@@ -112,49 +105,17 @@ async function openSimulator(args: VerifyArgs): Promise<{ simulator?: Simulator;
 }
 
 export async function runVerify(args: VerifyArgs, argv: string[], io: VerifyIo): Promise<number> {
-  const diagnostics: Diagnostic[] = [];
+  // The synthesis's options exactly as `synth` builds them (src/cli/options.ts).
   const sources = new Map<string, string>();
-  const read = readText(args.file);
-  if (read.error !== undefined) {
-    printDiagnostics([diag("GW6004", read.error)], sources, io.err);
-    return EXIT.usage;
-  }
-  const text = read.text!;
-  sources.set(args.file, text);
-  const sizing = sizingOptionsFrom(args, diagnostics);
-  const optimize = optimizeOptionsFrom(args, diagnostics);
-  if (args.parts !== undefined) {
-    const p = readText(args.parts);
-    if (p.error !== undefined) diagnostics.push(diag("GW6004", p.error));
-    else {
-      sources.set(args.parts, p.text!);
-      const parsed = parsePartsFile(p.text!, args.parts);
-      diagnostics.push(...parsed.diagnostics);
-      if (parsed.value) sizing.parts = parsed.value;
-    }
-  }
-  if (!Number.isInteger(args["max-fanin"]) || args["max-fanin"] < 2 || args["max-fanin"] > 64) diagnostics.push(diag("GW6003", `--max-fanin ${args["max-fanin"]}: give a whole number from 2 to 64`));
-  const maxSteps = args["max-steps"];
-  if (maxSteps !== undefined && (!Number.isInteger(maxSteps) || maxSteps < 2 || maxSteps > 1_000_000)) diagnostics.push(diag("GW6003", `--max-steps ${maxSteps}: give a whole number of steps from 2 to 1000000`));
-  if (hasErrors(diagnostics)) {
+  const { prepared, diagnostics } = prepareSynthesis(args, argv, sources);
+  const maxSteps = wholeNumberOption(args["max-steps"], "max-steps", 2, 1_000_000, "give a whole number of steps from 2 to 1000000", diagnostics);
+  if (!prepared || hasErrors(diagnostics)) {
     printDiagnostics(diagnostics, sources, io.err);
     return EXIT.usage;
   }
-
-  const opts: SynthesisOptions = {
-    maxFanin: args["max-fanin"],
-    cells: args.cells,
-    cellsGiven: argv.some((a) => a === "--cells" || a.startsWith("--cells=")),
-    sizing,
-    opt: optimize.opt,
-    costModel: optimize.costModel,
-    maxFanout: optimize.maxFanout,
-    wiredAnd: optimize.wiredAnd,
-    commandLine: ["gatewright", ...argv].join(" "),
-  };
-  if (args.top !== undefined) opts.top = args.top;
+  const { text, options: opts } = prepared;
   const s = synthesize(text, args.file, opts);
-  diagnostics.push(...s.diagnostics);
+  appendDiagnostics(diagnostics, s.diagnostics);
   if (!s.files || !s.design || hasErrors(diagnostics)) {
     printDiagnostics(args.quiet ? diagnostics.filter((d) => d.severity === "error") : diagnostics, sources, io.err);
     const internal = diagnostics.some((d) => d.code.startsWith("GW9"));
@@ -194,7 +155,7 @@ export async function runVerify(args: VerifyArgs, argv: string[], io: VerifyIo):
       printDiagnostics([diag(w.error.code, w.error.message)], sources, io.err);
       return EXIT.design;
     }
-    written.push(...w.written);
+    for (const f of w.written) written.push(f);
   }
 
   const bar = new ProgressBar(io.err, io.columns ?? 80);
@@ -238,7 +199,7 @@ export async function runVerify(args: VerifyArgs, argv: string[], io: VerifyIo):
     printDiagnostics([diag(w.error.code, w.error.message)], sources, io.err);
     return EXIT.design;
   }
-  written.push(...w.written);
+  for (const f of w.written) written.push(f);
 
   const shown = [...diagnostics, ...result.diagnostics].filter((d) => (args.quiet ? d.severity === "error" : true));
   printDiagnostics(shown, sources, io.err);

@@ -26,6 +26,9 @@ export interface Diagnostic {
   length?: number;
   hint?: string;
   related?: RelatedInfo[];
+  /** The options or data-file keys the diagnostic is about, by their field names (for example
+   *  `betaMin`), so the shell can name them as the user wrote them (`--beta-min`). */
+  about?: string[];
 }
 
 /** Builds a diagnostic whose severity comes from the catalogue. */
@@ -33,7 +36,7 @@ export function diag(
   code: DiagnosticCode,
   message: string,
   where?: { file?: string; span?: Span },
-  extra?: { hint?: string; related?: RelatedInfo[]; severity?: Severity },
+  extra?: { hint?: string; related?: RelatedInfo[]; severity?: Severity; about?: string[] },
 ): Diagnostic {
   const d: Diagnostic = {
     code,
@@ -47,6 +50,7 @@ export function diag(
   }
   if (extra?.hint) d.hint = extra.hint;
   if (extra?.related?.length) d.related = extra.related;
+  if (extra?.about?.length) d.about = extra.about;
   return d;
 }
 

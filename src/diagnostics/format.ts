@@ -6,12 +6,19 @@ export interface LineCol {
   column: number; // 1-based
 }
 
-/** Offsets of the first character of each line. */
+/** The last text's line starts: printing many diagnostics of one large file scans it once. */
+let cachedText: string | undefined;
+let cachedStarts: number[] = [];
+
+/** Offsets of the first character of each line (shared with the cache: read it, do not change it). */
 export function lineStarts(text: string): number[] {
+  if (text === cachedText) return cachedStarts;
   const starts = [0];
   for (let i = 0; i < text.length; i++) {
     if (text.charCodeAt(i) === 10) starts.push(i + 1);
   }
+  cachedText = text;
+  cachedStarts = starts;
   return starts;
 }
 

@@ -45,6 +45,11 @@ export interface ResolvedOptions {
   wiringCapacitancePerLoadFarads: number;
   orShareFactor: number;
   variants: "auto" | "basic";
+  /** Fast variants' speed-up capacitor: series, tolerance and allowed range. */
+  capacitorSeries: SeriesName;
+  capacitorTolerance: number;
+  capacitorMinFarads: number;
+  capacitorMaxFarads: number;
   forcedValues?: Record<string, Record<string, number>>;
   devices: DeviceData;
   parameters: SizingParameter[];
@@ -55,8 +60,9 @@ const SERIES_OK = ["E12", "E24", "E48", "E96"];
 export function resolveOptions(o: SizingOptions): StageResult<ResolvedOptions> {
   const diagnostics: Diagnostic[] = [];
   const params: SizingParameter[] = [];
-  const bad = (what: string, hint?: string): void => {
-    diagnostics.push(diag("GW6003", what, undefined, hint ? { hint } : undefined));
+  // `about`: the options a problem is about, so the command line can name its own flags.
+  const bad = (what: string, hint?: string, ...about: (keyof SizingOptions)[]): void => {
+    diagnostics.push(diag("GW6003", what, undefined, { ...(hint ? { hint } : {}), about }));
   };
   const rec = (name: string, label: string, value: number, unit: string, source: Provenance): void => {
     params.push({ name, label, value, unit, source });
@@ -64,12 +70,12 @@ export function resolveOptions(o: SizingOptions): StageResult<ResolvedOptions> {
   const src = (x: unknown): Provenance => (x === undefined ? "default" : "user");
   const finite = (x: number | undefined): boolean => x === undefined || Number.isFinite(x);
 
-  if (!Number.isFinite(o.supplyVolts) || !(o.supplyVolts > 0)) bad(`supply must be a positive voltage, not ${o.supplyVolts}`);
-  else if (o.supplyVolts < 2.5) bad(`supply ${o.supplyVolts} V is too low for DTL (at least about 3 V)`, "DTL needs the input node at 2·V_D + V_BE ≈ 2.2 V plus headroom");
-  else if (o.supplyVolts > 60) bad(`supply ${o.supplyVolts} V is above what gatewright sizes (60 V)`);
+  if (!Number.isFinite(o.supplyVolts) || !(o.supplyVolts > 0)) bad(`supply must be a positive voltage, not ${o.supplyVolts}`, undefined, "supplyVolts");
+  else if (o.supplyVolts < 2.5) bad(`supply ${o.supplyVolts} V is too low for DTL (at least about 3 V)`, "DTL needs the input node at 2·V_D + V_BE ≈ 2.2 V plus headroom", "supplyVolts");
+  else if (o.supplyVolts > 60) bad(`supply ${o.supplyVolts} V is above what gatewright sizes (60 V)`, undefined, "supplyVolts");
 
   const supplyTolerance = o.supplyTolerance ?? DEFAULTS.supplyTolerance;
-  if (!finite(o.supplyTolerance) || supplyTolerance < 0 || supplyTolerance >= 0.5) bad(`supply tolerance must be between 0 and 50 %, not ${supplyTolerance}`);
+  if (!finite(o.supplyTolerance) || supplyTolerance < 0 || supplyTolerance >= 0.5) bad(`supply tolerance must be between 0 and 50 %, not ${supplyTolerance}`, undefined, "supplyTolerance");
 
   let tempMinC = o.tempMinC ?? DEFAULTS.tempMinC;
   let tempMaxC = o.tempMaxC ?? DEFAULTS.tempMaxC;
@@ -78,41 +84,50 @@ export function resolveOptions(o: SizingOptions): StageResult<ResolvedOptions> {
     tempMinC = o.tempMinC ?? DEFAULTS.industrialTempMinC;
     tempMaxC = o.tempMaxC ?? DEFAULTS.industrialTempMaxC;
   }
-  if (!finite(o.tempMinC) || !finite(o.tempMaxC) || tempMinC > tempMaxC) bad(`temperature range ${tempMinC}..${tempMaxC} °C is not a range`);
-  if (tempMinC < -60 || tempMaxC > 150) bad(`temperature range ${tempMinC}..${tempMaxC} °C is outside −60..150 °C`);
+  if (!finite(o.tempMinC) || !finite(o.tempMaxC) || tempMinC > tempMaxC) bad(`temperature range ${tempMinC}..${tempMaxC} °C is not a range`, undefined, "tempMinC", "tempMaxC", "temperaturePreset");
+  if (tempMinC < -60 || tempMaxC > 150) bad(`temperature range ${tempMinC}..${tempMaxC} °C is outside −60..150 °C`, undefined, ...(tempMinC < -60 ? (["tempMinC"] as const) : []), ...(tempMaxC > 150 ? (["tempMaxC"] as const) : []));
 
   const series = (o.series ?? DEFAULTS.series) as SeriesName;
   if (!SERIES_OK.includes(series)) {
     diagnostics.push(diag("GW6006", `unknown resistor series "${String(o.series)}"`, undefined, { hint: "use E12, E24, E48 or E96" }));
   }
   const resistorTolerance = o.resistorTolerance ?? (SERIES_OK.includes(series) ? seriesTolerance(series) : 0.05);
-  if (!finite(o.resistorTolerance) || resistorTolerance < 0 || resistorTolerance >= 0.5) bad(`resistor tolerance must be between 0 and 50 %, not ${resistorTolerance}`);
+  if (!finite(o.resistorTolerance) || resistorTolerance < 0 || resistorTolerance >= 0.5) bad(`resistor tolerance must be between 0 and 50 %, not ${resistorTolerance}`, undefined, "resistorTolerance");
   const resistorMinOhms = o.resistorMinOhms ?? DEFAULTS.resistorMinOhms;
   const resistorMaxOhms = o.resistorMaxOhms ?? DEFAULTS.resistorMaxOhms;
   if (!finite(o.resistorMinOhms) || !finite(o.resistorMaxOhms) || !(resistorMinOhms > 0) || !(resistorMaxOhms > resistorMinOhms))
     bad(`allowed resistor range ${resistorMinOhms}..${resistorMaxOhms} Ω is not a range`);
 
   if (o.fanoutOverride !== undefined && (!Number.isInteger(o.fanoutOverride) || o.fanoutOverride < 1 || o.fanoutOverride > 1000))
-    bad(`fan-out must be a whole number from 1 to 1000, not ${o.fanoutOverride}`);
+    bad(`fan-out must be a whole number from 1 to 1000, not ${o.fanoutOverride}`, undefined, "fanoutOverride");
   const mode = o.mode ?? "uniform";
   if (mode !== "uniform" && mode !== "per-gate") diagnostics.push(diag("GW6001", `unknown sizing mode "${String(mode)}"`, undefined, { hint: "use uniform or per-gate" }));
   const variants = o.variants ?? "auto";
   if (variants !== "auto" && variants !== "basic") diagnostics.push(diag("GW6001", `unknown variant policy "${String(variants)}"`, undefined, { hint: "use auto or basic" }));
 
-  const positive = (x: number | undefined, what: string): void => {
-    if (x !== undefined && (!Number.isFinite(x) || !(x > 0))) bad(`${what} must be greater than zero, not ${x}`);
+  const positive = (x: number | undefined, what: string, about: keyof SizingOptions): void => {
+    if (x !== undefined && (!Number.isFinite(x) || !(x > 0))) bad(`${what} must be greater than zero, not ${x}`, undefined, about);
   };
-  positive(o.betaMin, "minimum gain");
-  positive(o.saturationMarginMin, "saturation margin");
+  positive(o.betaMin, "minimum gain", "betaMin");
+  positive(o.saturationMarginMin, "saturation margin", "saturationMarginMin");
   if (o.collectorCurrentMinAmps !== undefined && !(Number.isFinite(o.collectorCurrentMinAmps) && o.collectorCurrentMinAmps >= 0)) bad(`collector-current floor must not be negative`);
-  positive(o.powerCeilingWatts, "power ceiling");
-  positive(o.gateDelayMaxSeconds, "gate delay budget");
-  positive(o.pathDelayMaxSeconds, "path delay budget");
-  positive(o.clockHz, "clock frequency");
-  if (o.noiseMarginMinVolts !== undefined && !(Number.isFinite(o.noiseMarginMinVolts) && o.noiseMarginMinVolts >= 0)) bad(`noise margin must not be negative`);
+  positive(o.powerCeilingWatts, "power ceiling", "powerCeilingWatts");
+  positive(o.gateDelayMaxSeconds, "gate delay budget", "gateDelayMaxSeconds");
+  positive(o.pathDelayMaxSeconds, "path delay budget", "pathDelayMaxSeconds");
+  positive(o.clockHz, "clock frequency", "clockHz");
+  if (o.noiseMarginMinVolts !== undefined && !(Number.isFinite(o.noiseMarginMinVolts) && o.noiseMarginMinVolts >= 0)) bad(`noise margin must not be negative`, undefined, "noiseMarginMinVolts");
   if (o.turnOffRatioMin !== undefined && !(Number.isFinite(o.turnOffRatioMin) && o.turnOffRatioMin >= 0)) bad(`turn-off ratio must not be negative`);
-  if (o.wiringCapacitancePerLoadFarads !== undefined && !(Number.isFinite(o.wiringCapacitancePerLoadFarads) && o.wiringCapacitancePerLoadFarads >= 0)) bad(`wiring capacitance must not be negative`);
+  if (o.wiringCapacitancePerLoadFarads !== undefined && !(Number.isFinite(o.wiringCapacitancePerLoadFarads) && o.wiringCapacitancePerLoadFarads >= 0)) bad(`wiring capacitance must not be negative`, undefined, "wiringCapacitancePerLoadFarads");
   if (o.orShareFactor !== undefined && !(o.orShareFactor > 0 && o.orShareFactor <= 1)) bad(`diode-OR share factor must be in (0, 1]`);
+
+  const capacitorSeries = (o.capacitorSeries ?? "E6") as SeriesName;
+  if (!["E6", "E12", "E24"].includes(capacitorSeries)) diagnostics.push(diag("GW6006", `unknown capacitor series "${String(o.capacitorSeries)}"`, undefined, { hint: "use E6, E12 or E24 (ceramic capacitors are usually E6 or E12)" }));
+  const capacitorTolerance = o.capacitorTolerance ?? (["E6", "E12", "E24"].includes(capacitorSeries) ? seriesTolerance(capacitorSeries) : 0.2);
+  if (!finite(o.capacitorTolerance) || capacitorTolerance < 0 || capacitorTolerance >= 0.5) bad(`capacitor tolerance must be between 0 and 50 %, not ${capacitorTolerance}`);
+  const capacitorMinFarads = o.capacitorMinFarads ?? 10e-12;
+  const capacitorMaxFarads = o.capacitorMaxFarads ?? 1e-9;
+  if (!finite(o.capacitorMinFarads) || !finite(o.capacitorMaxFarads) || !(capacitorMinFarads > 0) || !(capacitorMaxFarads >= capacitorMinFarads))
+    bad(`allowed capacitor range ${capacitorMinFarads}..${capacitorMaxFarads} F is not a range`);
 
   if (diagnostics.length > 0) return { diagnostics };
 
@@ -186,6 +201,10 @@ export function resolveOptions(o: SizingOptions): StageResult<ResolvedOptions> {
     wiringCapacitancePerLoadFarads,
     orShareFactor,
     variants,
+    capacitorSeries,
+    capacitorTolerance,
+    capacitorMinFarads,
+    capacitorMaxFarads,
     devices,
     parameters: params,
   };

@@ -80,11 +80,17 @@ function describe(u: Unit): string | undefined {
 }
 
 /** Parses `text` as a quantity of the given dimension; returns SI base units (°C for temperature). */
+/** Longest quantity text read (a documented limit). */
+export const MAX_QUANTITY_TEXT = 100;
+
 export function parseQuantity(text: string, dimension: Dimension): QuantityResult {
   const info = DIMENSIONS[dimension];
   const expected = `expected ${info.shown} (for example "${info.example}")`;
   const t = text.trim();
   if (t === "") return { error: `empty value: ${expected}` };
+  // Refused before any pattern or parser sees it: no quantity is this long, and a long run of
+  // digits makes the number pattern backtrack for quadratic time (1 MB took minutes).
+  if (t.length > MAX_QUANTITY_TEXT) return { error: `too long for a quantity (at most ${MAX_QUANTITY_TEXT} characters): ${expected}` };
 
   if (dimension === "ratio") {
     const pc = PERCENT.exec(t);

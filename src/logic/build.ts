@@ -1,12 +1,13 @@
 // Name resolution: DesignSource (syntax) → LogicGraph, with the diagnostics of a design whose
 // names do not add up (undefined, driven twice, never driven, unused).
-import { diag, hasErrors, type Diagnostic, type StageResult } from "../diagnostics/index.js";
+import { diag, DiagnosticLimiter, hasErrors, type StageResult } from "../diagnostics/index.js";
 import type { DesignSource, Expr } from "../syntax/index.js";
 import type { DontCareSet, LogicGraph, LogicNode, Port } from "./graph.js";
 import { nearestName } from "./names.js";
 
 export function buildLogicGraph(src: DesignSource): StageResult<LogicGraph> {
-  const diagnostics: Diagnostic[] = [];
+  // Bounded: the first 50 errors and 50 warnings of each code, then a count (GW2034).
+  const diagnostics = new DiagnosticLimiter(src.file);
   const file = src.file;
   const at = (span: { start: number; length: number }) => ({ file, span });
 
@@ -102,8 +103,8 @@ export function buildLogicGraph(src: DesignSource): StageResult<LogicGraph> {
       );
       return undefined;
     }
-    knownCache ??= known();
-    const near = nearestName(name, knownCache);
+    // The "did you mean" search is skipped once such errors are no longer shown.
+    const near = diagnostics.full("GW2001") ? undefined : nearestName(name, (knownCache ??= known()));
     diagnostics.push(
       diag("GW2001", `'${name}' is not an input and is never assigned`, at(span), {
         hint: near
@@ -171,10 +172,11 @@ export function buildLogicGraph(src: DesignSource): StageResult<LogicGraph> {
     }
   }
 
-  if (hasErrors(diagnostics)) return { diagnostics };
+  const kept = diagnostics.finish();
+  if (hasErrors(kept)) return { diagnostics: kept };
   const graph: LogicGraph = { name: src.name, file, nodes, inputs, outputs };
   if (dontCares.length) graph.dontCares = dontCares;
-  return { value: graph, diagnostics };
+  return { value: graph, diagnostics: kept };
 }
 
 /** Compiles an expression tree into graph nodes without recursion. */

@@ -1,11 +1,12 @@
 // Choosing the top module, finding instantiation cycles, and flattening the hierarchy into one
 // DesignSource with hierarchical names (`u1.n`, `u1.u2.n`). Everything is iterative: a deep
-// instance hierarchy cannot overflow the stack, and the flattened size is computed before any
-// work is done so that a small file describing a huge design is refused, not attempted.
+// instance hierarchy cannot overflow the stack, and the flattened size (items, hierarchy depth
+// and the total length of the names) is computed before any work is done so that a small file
+// describing a huge design is refused, not attempted.
 import { diag, type Span } from "../diagnostics/index.js";
-import type { Assignment, Declaration, DesignSource } from "../syntax/index.js";
+import type { Assignment, Declaration, DesignSource, Expr } from "../syntax/index.js";
 import { build } from "../syntax/index.js";
-import { renameExpr, suggest, type ModuleDef } from "./verilog-elaborate.js";
+import { renameExpr, suggest, type InstanceDef, type ModuleDef } from "./verilog-elaborate.js";
 import type { Reporter } from "./verilog-expr.js";
 
 /** Most declarations plus assignments a flattened design may have (a documented limit). */
@@ -118,9 +119,46 @@ export function chooseTop(
   return undefined;
 }
 
-/** Size of the flattened design below each module (declared bits + assignments). */
-function flatSizes(top: ModuleDef): Map<string, number> | undefined {
-  const size = new Map<string, number>();
+/** Most levels of module instances below the top module (a documented limit, GW2035; the same
+ *  as the expression nesting limit). Each level puts its instance name before every name below
+ *  it, so the flattened names grow with the depth and their total length with its square. */
+export const MAX_HIERARCHY_DEPTH = 2_000;
+
+/** Most characters of all flattened names together (a documented limit, GW2022): about 100 MB
+ *  of names, some hundred times what a 100,000-gate flat netlist needs. */
+export const MAX_FLAT_NAME_CHARS = 100_000_000;
+
+/** What flattening a module produces (all counts saturate far above the limits). */
+interface Extent {
+  /** Declared bits plus assignments. */
+  items: number;
+  /** Names written in them (declarations, assignment targets, references). */
+  names: number;
+  /** Characters of those names. */
+  chars: number;
+  /** Levels of instances below the module (0: gates only). */
+  depth: number;
+}
+
+/** References (count and characters) in an expression, without recursion. */
+function refsOf(e: Expr): { names: number; chars: number } {
+  let names = 0;
+  let chars = 0;
+  const stack: Expr[] = [e];
+  while (stack.length) {
+    const x = stack.pop()!;
+    if (x.kind === "ref") {
+      names++;
+      chars += x.name.length;
+    } else if (x.kind === "not") stack.push(x.arg);
+    else if (x.kind !== "const") for (const a of x.args) stack.push(a);
+  }
+  return { names, chars };
+}
+
+/** Extent of the flattened design below each module. */
+function flatExtents(top: ModuleDef): Map<string, Extent> | undefined {
+  const extent = new Map<string, Extent>();
   // Post-order over the (acyclic) module graph, with an explicit stack.
   const stack: { def: ModuleDef; next: number }[] = [{ def: top, next: 0 }];
   const open = new Set<string>([top.name]);
@@ -128,7 +166,7 @@ function flatSizes(top: ModuleDef): Map<string, number> | undefined {
     const f = stack[stack.length - 1]!;
     if (f.next < f.def.instances.length) {
       const child = f.def.instances[f.next++]!.resolved?.child;
-      if (child && !size.has(child.name)) {
+      if (child && !extent.has(child.name)) {
         if (open.has(child.name)) return undefined; // a cycle; reported by findCycles
         open.add(child.name);
         stack.push({ def: child, next: 0 });
@@ -137,30 +175,109 @@ function flatSizes(top: ModuleDef): Map<string, number> | undefined {
     }
     stack.pop();
     open.delete(f.def.name);
-    let n = f.def.assignments.length;
-    for (const net of f.def.netOrder) n += net.bits.length;
+    const e: Extent = { items: f.def.assignments.length, names: 0, chars: 0, depth: 0 };
+    const named = (name: string) => {
+      e.names++;
+      e.chars += name.length;
+    };
+    const refs = (x: Expr) => {
+      const r = refsOf(x);
+      e.names += r.names;
+      e.chars += r.chars;
+    };
+    for (const a of f.def.assignments) {
+      named(a.target);
+      refs(a.expr);
+    }
+    for (const net of f.def.netOrder) {
+      e.items += net.bits.length;
+      for (const b of net.bits) named(b);
+    }
     for (const inst of f.def.instances) {
       const res = inst.resolved;
       if (!res) continue;
-      n += res.inputs.length + res.outputs.length + size.get(res.child.name)!;
+      const c = extent.get(res.child.name)!;
+      const prefix = inst.name.name.length + 1;
+      e.items += res.inputs.length + res.outputs.length + c.items;
+      for (const i of res.inputs) {
+        named(i.childBit);
+        e.chars += prefix;
+        refs(i.expr);
+      }
+      for (const o of res.outputs) {
+        named(o.parentBit);
+        named(o.childBit);
+        e.chars += prefix;
+      }
+      e.names += c.names;
+      e.chars += c.chars + c.names * prefix;
+      e.depth = Math.max(e.depth, c.depth + 1);
     }
-    size.set(f.def.name, Math.min(n, Number.MAX_SAFE_INTEGER));
+    extent.set(f.def.name, e);
   }
-  return size;
+  return extent;
 }
+
+/** The instance at which a hierarchy deeper than the limit passes it: down the deepest path. */
+function instanceBeyondDepth(top: ModuleDef, extent: ReadonlyMap<string, Extent>): { inst: InstanceDef; parent: ModuleDef } | undefined {
+  let def = top;
+  for (let level = 1; ; level++) {
+    let deepest: InstanceDef | undefined;
+    for (const inst of def.instances) {
+      const child = inst.resolved?.child;
+      if (!child) continue;
+      if (!deepest || extent.get(child.name)!.depth > extent.get(deepest.resolved!.child.name)!.depth) deepest = inst;
+    }
+    if (!deepest) return undefined;
+    if (level > MAX_HIERARCHY_DEPTH) return { inst: deepest, parent: def };
+    def = deepest.resolved!.child;
+  }
+}
+
+const count = (n: number) => (Number.isFinite(n) && n < Number.MAX_SAFE_INTEGER ? Math.round(n).toLocaleString("en") : "more than 10^15");
 
 /** Flattens the top module and everything below it into one DesignSource. */
 export function flatten(top: ModuleDef, file: string, r: Reporter): DesignSource | undefined {
-  const sizes = flatSizes(top);
-  if (!sizes) return undefined;
-  const total = sizes.get(top.name)!;
-  if (total > MAX_FLAT_ITEMS) {
+  const extents = flatExtents(top);
+  if (!extents) return undefined;
+  const whole = extents.get(top.name)!;
+  const smaller = { hint: "build a smaller part of the hierarchy with the 'top' option (--top NAME)" };
+  if (whole.depth > MAX_HIERARCHY_DEPTH) {
+    const beyond = instanceBeyondDepth(top, extents);
+    const where = beyond ? { file, span: beyond.inst.name.span } : { file, span: top.nameSpan };
+    r.report(
+      diag(
+        "GW2035",
+        beyond
+          ? `instance '${beyond.inst.name.name}' of module '${beyond.inst.module.name}' in module '${beyond.parent.name}' is level ${(MAX_HIERARCHY_DEPTH + 1).toLocaleString("en")} of the hierarchy below '${top.name}', which is ${whole.depth.toLocaleString("en")} levels deep; gatewright flattens at most ${MAX_HIERARCHY_DEPTH.toLocaleString("en")}`
+          : `the hierarchy below module '${top.name}' is ${whole.depth.toLocaleString("en")} levels deep; gatewright flattens at most ${MAX_HIERARCHY_DEPTH.toLocaleString("en")}`,
+        where,
+        {
+          hint: "a hierarchy ends in gates after a few levels; build a lower module with the 'top' option (--top NAME)",
+          related: [relatedAt(`the top module '${top.name}'`, file, top.nameSpan)],
+        },
+      ),
+    );
+    return undefined;
+  }
+  if (whole.items > MAX_FLAT_ITEMS) {
     r.report(
       diag(
         "GW2022",
-        `module '${top.name}' flattens to about ${total.toLocaleString("en")} nets and assignments, more than the limit of ${MAX_FLAT_ITEMS.toLocaleString("en")}`,
+        `module '${top.name}' flattens to about ${count(whole.items)} nets and assignments, more than the limit of ${MAX_FLAT_ITEMS.toLocaleString("en")}`,
         { file, span: top.nameSpan },
-        { hint: "build a smaller part of the hierarchy with the 'top' option (--top NAME)" },
+        smaller,
+      ),
+    );
+    return undefined;
+  }
+  if (whole.chars > MAX_FLAT_NAME_CHARS) {
+    r.report(
+      diag(
+        "GW2022",
+        `module '${top.name}' flattens to about ${count(whole.chars)} characters of hierarchical names (instance names before every name below them), more than the limit of ${MAX_FLAT_NAME_CHARS.toLocaleString("en")}`,
+        { file, span: top.nameSpan },
+        { hint: "use shorter instance names or fewer levels, or build a smaller part of the hierarchy with the 'top' option (--top NAME)" },
       ),
     );
     return undefined;

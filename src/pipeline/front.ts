@@ -1,5 +1,5 @@
 // Front of the pipeline: source text → logic graph with its stored state named.
-import { diag, hasErrors, type Diagnostic } from "../diagnostics/index.js";
+import { appendDiagnostics, capDiagnostics, diag, hasErrors, type Diagnostic } from "../diagnostics/index.js";
 import { buildLogicGraph, type LogicGraph } from "../logic/index.js";
 import { expandStateElements } from "../sequential/expand.js";
 import { analyzeState, type StateAnalysis } from "../sequential/state.js";
@@ -39,17 +39,17 @@ export function readDesign(text: string, file: string, opts: { top?: string } = 
     return { diagnostics, stateNames: [], keptNames: [] };
   }
   const parsed = lang === "equations" ? parseEquations(text, file) : parseVerilog(text, file, opts.top !== undefined ? { top: opts.top } : {});
-  diagnostics.push(...parsed.diagnostics);
+  appendDiagnostics(diagnostics, capDiagnostics(parsed.diagnostics, file));
   if (!parsed.value || hasErrors(parsed.diagnostics)) return { diagnostics, stateNames: [], keptNames: [] };
   // Built-in state elements (q = dff(d, clk)) become NAND gates before names are resolved.
   const expanded = expandStateElements(parsed.value);
-  diagnostics.push(...expanded.diagnostics);
+  appendDiagnostics(diagnostics, capDiagnostics(expanded.diagnostics, file));
   if (hasErrors(expanded.diagnostics)) return { source: parsed.value, diagnostics, stateNames: [], keptNames: [] };
   const built = buildLogicGraph(expanded.source);
-  diagnostics.push(...built.diagnostics);
+  appendDiagnostics(diagnostics, capDiagnostics(built.diagnostics, file));
   if (!built.value) return { source: parsed.value, diagnostics, stateNames: [], keptNames: [] };
   const g = built.value;
   const state = analyzeState(parsed.value, g, expanded.elements, expanded.keptNames);
-  diagnostics.push(...state.diagnostics);
+  appendDiagnostics(diagnostics, capDiagnostics(state.diagnostics, file));
   return { source: parsed.value, graph: g, stateNames: state.stateNames, keptNames: state.keptNames, state, diagnostics };
 }

@@ -4,11 +4,11 @@
 // Sources: IEC 60063:2015 defines the series E3, E6, E12, E24, E48, E96 and E192 (gatewright
 // sizes with E12 to E96); units and prefixes as in the SI Brochure (BIPM, 9th edition);
 // RFC 8259 for JSON.
-import { existsSync, mkdtempSync, writeFileSync } from "node:fs";
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
-import { main } from "../../src/cli/main.js";
+import { main, VALUE_FLAGS } from "../../src/cli/main.js";
 
 const DESIGN = "test/fixtures/logic/xor2.logic";
 
@@ -36,6 +36,14 @@ function partsFile(text: string): string {
 }
 
 describe("command-line options", () => {
+  it("--noise-margin and --cap-series reach the sizing and the report says they were given", async () => {
+    const r = await synthWith("--noise-margin", "0.3V", "--cap-series", "E12");
+    expect(r.code).toBe(0);
+    const report = readFileSync(join(base, `out${serial}`, "xor2.report.md"), "utf8");
+    expect(report).toMatch(/\| Required noise margin, low and high \| 300 mV \| given \|/);
+    expect(report).toMatch(/low-state noise margin \| [\d.]+ mV \| ≥ 300 mV/);
+  });
+
   it("the unchanged command works, so the failures below are the options' doing", async () => {
     const r = await synthWith("--quiet");
     expect(r.code).toBe(0);
@@ -99,14 +107,11 @@ describe("command-line options", () => {
     }
   });
 
-  // Bug: range checks of the sizing options (src/electrical/options.ts resolveOptions) run
-  // inside synthesize(), after the CLI has accepted the options, so their GW6003 comes back as
-  // a design problem: exit 1 and "nothing written: 1 error(s)" instead of exit 2, and the
-  // message does not name the option ("minimum gain must be greater than zero, not -3").
-  // Reproduce: gatewright synth test/fixtures/logic/xor2.logic --beta-min -3 → exit 1.
-  // Same for --supply=-5V, --supply 100V, --temp-min 90degC, --resistor-tolerance "80 %",
-  // --clock "0 Hz". Flip to `it` once runSynth checks them (resolveOptions) before synthesizing.
-  it.fails("a value out of range (--beta-min -3 and the sizing ranges): exit 2 naming the option", async () => {
+  // Regression: the sizing options' range checks (src/electrical/options.ts resolveOptions)
+  // used to run inside synthesize(), after the CLI had accepted the options: exit 1, "nothing
+  // written: 1 error(s)", and a message that did not name the option. Now the CLI runs them
+  // before any work (src/cli/options.ts prepareSynthesis), naming the option as it was typed.
+  it("a value out of range (--beta-min -3 and the sizing ranges): exit 2 naming the option", async () => {
     const cases: [string[], string][] = [
       [["--beta-min", "-3"], "--beta-min"],
       [["--beta-min=-3"], "--beta-min"],
@@ -122,31 +127,176 @@ describe("command-line options", () => {
       expect(r.wrote).toBe(false);
       expect(r.code, args.join(" ")).toBe(2);
       expect(r.err).toContain(flag);
+      expect(r.err, "checked before synthesis").not.toContain("nothing written");
     }
   });
 
-  it("the sizing ranges are enforced today, only with the wrong exit status (see the bug above)", async () => {
-    const r = await synthWith("--beta-min", "-3");
-    expect(r.err).toContain("error GW6003: minimum gain must be greater than zero, not -3");
-    expect(r.wrote).toBe(false);
-    expect(r.code).not.toBe(0);
+  it("range messages quote the option as typed, then the range that was broken", async () => {
+    const cases: [string[], string][] = [
+      [["--beta-min", "-3"], "error GW6003: --beta-min -3: minimum gain must be greater than zero, not -3"],
+      // 0..70 °C is the default (commercial) range, so a lowest temperature of 90 °C is no range.
+      [["--temp-min", "90 degC"], "error GW6003: --temp-min 90 degC: temperature range 90..70 °C is not a range"],
+      [["--industrial", "--temp-max=-50degC"], "error GW6003: --temp-max -50degC, --industrial: temperature range -40..-50 °C is not a range"],
+      [["--supply-tolerance", "-5 %"], "error GW6003: --supply-tolerance -5 %: supply tolerance must be between 0 and 50 %, not -0.05"],
+      [["--supply", "100 V"], "error GW6003: --supply 100 V: supply 100 V is above what gatewright sizes (60 V)"],
+      [["--wiring-cap", "-3pF"], "error GW6003: --wiring-cap -3pF: wiring capacitance must not be negative"],
+      [["--noise-margin", "-0.3V"], "error GW6003: --noise-margin -0.3V: noise margin must not be negative"],
+      [["--cap-series", "E96"], "error GW6006: --cap-series E96: not a capacitor series gatewright offers"],
+    ];
+    for (const [args, message] of cases) {
+      const r = await synthWith(...args);
+      expect(r.code, args.join(" ")).toBe(2);
+      expect(r.err).toContain(message);
+    }
   });
 
-  // Bug (message): a non-number for --max-fanin is reported as "--max-fanin NaN" (yargs turns
-  // the text into NaN before runSynth sees it). Reproduce: gatewright synth x.logic --max-fanin x.
-  it.fails("--max-fanin with text quotes the text", async () => {
+  // Regression (message): a non-number for --max-fanin was reported as "--max-fanin NaN" (yargs
+  // turned the text into NaN). Whole-number options now arrive as text and are read strictly.
+  it("--max-fanin with text quotes the text", async () => {
     const r = await synthWith("--max-fanin", "x");
     expect(r.code).toBe(2);
     expect(r.err).toContain("--max-fanin x");
   });
 
-  // Bug (message): a negative quantity with its unit glued on, given as a separate word
-  // (`--wiring-cap -3pF`, `--supply -5V`), is split by yargs into short flags: "Unknown
-  // arguments: 3, p, F". `--wiring-cap=-3pF` reaches the option check.
-  it.fails("a negative quantity with a unit after a space is named as the option's value", async () => {
+  it("whole-number options take decimal digits only and quote what was typed", async () => {
+    const cases: [string[], string][] = [
+      [["--max-fanin", "8 cells"], "GW6003: --max-fanin 8 cells: give a whole number from 2 to 64"],
+      [["--max-fanin="], "GW6003: --max-fanin : give a whole number from 2 to 64"],
+      [["--opt", "x"], "GW6003: --opt x: give 0, 1 or 2"],
+      [["--max-fanout", "two"], "GW6003: --max-fanout two: give a whole number from 2 to 1000, or 0 for no limit"],
+      [["--fanout", "0x10"], "GW6003: --fanout 0x10: give a whole number of loads from 1 to 1000"],
+      [["--fanout", "1e3"], "GW6003: --fanout 1e3: give a whole number of loads from 1 to 1000"],
+    ];
+    for (const [args, message] of cases) {
+      const r = await synthWith(...args);
+      expect(r.code, args.join(" ")).toBe(2);
+      expect(r.err).toContain(message);
+      expect(r.wrote).toBe(false);
+    }
+  });
+
+  // Regression (message): a negative quantity with its unit glued on, given as a separate word
+  // (`--wiring-cap -3pF`, `--supply -5V`), was split by yargs into short flags: "Unknown
+  // arguments: 3, p, F". The shell now joins such a word to its option first.
+  it("a negative quantity with a unit after a space is named as the option's value", async () => {
     const r = await synthWith("--wiring-cap", "-3pF");
     expect(r.code).toBe(2);
     expect(r.err).toContain("--wiring-cap");
+  });
+
+  it("a negative temperature as a separate word is read: -40degC is the usual industrial low (common practice)", async () => {
+    const r = await synthWith("--temp-min", "-40degC", "--quiet");
+    expect(r.err).toBe("");
+    expect(r.code).toBe(0);
+    const spaced = await synthWith("--temp-min", "-40 degC", "--quiet");
+    expect(spaced.code).toBe(0);
+  });
+
+  it("an option without its value is a usage error, not the default", async () => {
+    for (const args of [["--supply"], ["--supply", "--quiet"], ["--max-fanin"], ["--cells"]]) {
+      const r = await synthWith(...args);
+      expect(r.code, args.join(" ")).toBe(2);
+      expect(r.err).toMatch(/not enough arguments following: (supply|max-fanin|cells)/i);
+      expect(r.wrote).toBe(false);
+    }
+    // `--out` as the last word: nothing may go to the default folder instead.
+    const r = await run("synth", DESIGN, "--out");
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/not enough arguments following: out/i);
+    const empty = await run("synth", DESIGN, "--out=");
+    expect(empty.code).toBe(2);
+    expect(empty.err).toContain("GW6001: --out: give the folder for the outputs");
+  });
+
+  it("an option given twice is refused, naming both values", async () => {
+    const r = await synthWith("--supply", "5V", "--supply", "12V");
+    expect(r.code).toBe(2);
+    expect(r.err).toContain("error GW6001: --supply is given 2 times (5V, 12V); give it once");
+    expect(r.wrote).toBe(false);
+  });
+
+  it("a huge or control-character value is refused with a short message", async () => {
+    const r = await synthWith("--supply", `5${"0".repeat(100_000)} V`);
+    expect(r.code).toBe(2);
+    expect(r.err).toContain("GW6002: --supply 5000");
+    expect(r.err).toContain("(100,003 characters): too long for a quantity (at most 100 characters)");
+    expect(r.err.length).toBeLessThan(400);
+    const ctl = await synthWith("--mode", "fast\u0000\u001b[2J");
+    expect(ctl.code).toBe(2);
+    // NUL and ESC (the start of a terminal control sequence) are shown as "?".
+    expect(ctl.err).toContain("--mode fast??[2J:");
+  });
+
+  it("every option that takes a value is in the shell's list of them (so a negative value is joined to it)", async () => {
+    // The list is kept by hand in src/cli/main.ts; the help shows each option with its type.
+    for (const cmd of ["synth", "verify"]) {
+      const help = (await run(cmd, "--help")).out;
+      const options = [...help.matchAll(/^\s+(?:-\w, )?--([\w-]+)\s[\s\S]*?\[(string|number|boolean|choices:)/gm)];
+      expect(options.length, cmd).toBeGreaterThan(20);
+      for (const [, name, type] of options) {
+        if (type === "boolean") expect(VALUE_FLAGS.has(name!), `${cmd} --${name}`).toBe(false);
+        else expect(VALUE_FLAGS.has(name!), `${cmd} --${name}`).toBe(true);
+      }
+    }
+  });
+});
+
+describe("design files as editors save them", () => {
+  it("a file of no known language is a usage error (GW6007, exit 2), told before it is read", async () => {
+    const r = await run("synth", join(base, "no-such-design.txt"), "--out", join(base, `out${++serial}`));
+    expect(r.code).toBe(2);
+    expect(r.err).toContain("error GW6007: cannot tell the language of");
+    expect(r.err).not.toContain("GW6004");
+  });
+
+  it("CR-only line ends (classic Mac OS) are read as line ends: the design builds, errors at their line", async () => {
+    const lf = "input a, b; # two inputs\noutput y;\ny = a & !b;\n";
+    const p = join(base, `cr${++serial}.logic`);
+    writeFileSync(p, lf.replace(/\n/g, "\r"));
+    const ok = await run("synth", p, "--out", join(base, `out${++serial}`), "--quiet");
+    expect(ok.err).toBe("");
+    expect(ok.code).toBe(0);
+    const bad = join(base, `cr${++serial}.logic`);
+    writeFileSync(bad, lf.replace("!b", "!bb").replace(/\n/g, "\r"));
+    const r = await run("synth", bad, "--out", join(base, `out${++serial}`));
+    expect(r.code).toBe(1);
+    // 'bb' starts at the tenth character of the third line ("y = a & !bb;").
+    expect(r.err).toContain(`${bad}:3:10: error GW2001`);
+  });
+});
+
+describe("gatewright verify: the same option checks as synth, before any simulation", () => {
+  async function verifyWith(...extra: string[]) {
+    const out = join(base, `verify${++serial}`);
+    const r = await run("verify", DESIGN, "--out", out, ...extra);
+    return { ...r, wrote: existsSync(out) };
+  }
+
+  it("range, number, negative-value, repeated and parts-file problems: exit 2, named, nothing written", async () => {
+    const cases: [string[], string][] = [
+      [["--beta-min", "-3"], "error GW6003: --beta-min -3: minimum gain must be greater than zero, not -3"],
+      [["--clock", "0 Hz"], "error GW6003: --clock 0 Hz: clock frequency must be greater than zero, not 0"],
+      [["--max-fanin", "x"], "error GW6003: --max-fanin x: give a whole number from 2 to 64"],
+      [["--max-steps", "1e3"], "error GW6003: --max-steps 1e3: give a whole number of steps from 2 to 1000000"],
+      [["--wiring-cap", "-3pF"], "error GW6003: --wiring-cap -3pF: wiring capacitance must not be negative"],
+      [["--supply", "5V", "--supply", "12V"], "error GW6001: --supply is given 2 times (5V, 12V); give it once"],
+      [["--parts", partsFile(JSON.stringify({ npn: { model: { RB: -2 } } }))], "GW6005: parts file: npn.model.RB: must not be negative"],
+      // Checked before the simulator is looked for: no GW7003 for a missing system ngspice.
+      [["--simulator", "system", "--ngspice", join(base, "no-such-ngspice"), "--opt", "3"], "error GW6003: --opt 3: give 0, 1 or 2"],
+    ];
+    for (const [args, message] of cases) {
+      const r = await verifyWith(...args);
+      expect(r.code, args.join(" ")).toBe(2);
+      expect(r.err).toContain(message);
+      expect(r.err).not.toContain("GW7003");
+      expect(r.wrote).toBe(false);
+    }
+  });
+
+  it("a missing value is a usage error", async () => {
+    const r = await verifyWith("--max-steps");
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/not enough arguments following: max-steps/i);
   });
 });
 

@@ -27,6 +27,8 @@ import { describe, expect, it } from "vitest";
 import { CATALOGUE, formatDiagnostic, hasErrors, type Diagnostic } from "../../src/diagnostics/index.js";
 import { MAX_NESTING as EQUATION_NESTING, parseEquations } from "../../src/parse/equations.js";
 import { MAX_NESTING as VERILOG_NESTING, parseVerilog } from "../../src/parse/verilog.js";
+import { MAX_HIERARCHY_DEPTH } from "../../src/parse/verilog-flatten.js";
+import { normalizeLineEnds } from "../../src/cli/options.js";
 import { readDesign } from "../../src/pipeline/front.js";
 import { synthesize } from "../../src/pipeline/synthesize.js";
 
@@ -444,13 +446,15 @@ describe("hostile inputs", () => {
     }, timeout(nLine, 6000));
   }
 
-  it("equations: a chain of 20,000 named signals (a deep graph without any nesting) reads", () => {
+  it("equations: a chain of 20,000 named signals (a deep graph without any nesting) reads", async () => {
+    await breathe();
     const n = 20_000;
     const body = Array.from({ length: n }, (_, i) => `t${i} = !${i ? `t${i - 1}` : "a"};`).join("\n");
     expectClean("equations", `input a;\noutput y;\n${body}\ny = t${n - 1};\n`, "chain.logic");
   }, 120_000);
 
-  it("verilog: a chain of 20,000 gates and a gate of 20,000 inputs read", () => {
+  it("verilog: a chain of 20,000 gates and a gate of 20,000 inputs read", async () => {
+    await breathe();
     const n = 20_000;
     const wires = Array.from({ length: n }, (_, i) => `w${i}`);
     const chain = `module chain(a, y);\n  input a;\n  output y;\n  wire ${wires.join(", ")};\n  buf (w0, a);\n${wires.slice(1).map((w, i) => `  not (${w}, w${i});`).join("\n")}\n  buf (y, w${n - 1});\nendmodule\n`;
@@ -458,39 +462,167 @@ describe("hostile inputs", () => {
     expectClean("verilog", `module wide(a, b, y); input a, b; output y; nand (y${", a, b".repeat(n / 2)}); endmodule\n`, "wide.v");
   }, 120_000);
 
-  // Bug: src/pipeline/front.ts:49 `diagnostics.push(...built.diagnostics)` spreads one argument
-  // per diagnostic; with about 125,000 or more (one GW2006 "input never used" warning per
-  // unused input) it throws "RangeError: Maximum call stack size exceeded" out of readDesign
-  // (synthesize turns it into GW9001). Reproduce: a one-line declaration of 131,072 inputs,
-  // `input i0, i1, ..., i131071; output y; y = i0;` (1 MB), in a .logic or a .v file
-  // (100,000 still pass). Errors overflow it the same way: `y = a; ` written 150,000 times on
-  // one line (1 MB) gives one GW2002 "more than one driver" error each, as buildLogicGraph caps
-  // no errors (the readers stop at 50). The same spread is used for other stages' diagnostics
-  // in synthesize.ts. Flip to `it` once diagnostics are appended without spreading (and capped).
-  it.fails("both languages: 131,072 unused inputs give warnings, not a stack overflow", () => {
+  // Regression (was a stack overflow): `diagnostics.push(...list)` in src/pipeline spread one
+  // argument per diagnostic and threw "RangeError: Maximum call stack size exceeded" above
+  // about 125,000 of them: one GW2006 warning per unused input of
+  // `input i0, i1, ..., i131071; output y; y = i0;` (1 MB, .logic or .v), or one GW2002 error
+  // per extra driver of `y = a; ` written 150,000 times, as buildLogicGraph capped no errors.
+  // Now stages' diagnostics are appended without spreading and cut to the first 50 errors and
+  // the first 50 warnings of each code, with one GW2034 note counting the rest
+  // (src/diagnostics/limit.ts).
+  // The long cases below are async and let the event loop turn between their parts, so the
+  // test runner's worker answers its runner while they work.
+  it("both languages: 131,072 unused inputs give warnings, not a stack overflow", async () => {
     const names = Array.from({ length: 131_072 }, (_, i) => `i${i}`).join(", ");
-    expectClean("equations", `input ${names};\noutput y;\ny = i0;\n`, "unused.logic");
-    expectClean("verilog", `module unused(${names}, y);\n  input ${names};\n  output y;\n  buf (y, i0);\nendmodule\n`, "unused.v");
+    const cases = [
+      { text: `input ${names};\noutput y;\ny = i0;\n`, file: "unused.logic", lang: "equations" as const },
+      { text: `module unused(${names}, y);\n  input ${names};\n  output y;\n  buf (y, i0);\nendmodule\n`, file: "unused.v", lang: "verilog" as const },
+    ];
+    for (const c of cases) {
+      await breathe();
+      expectClean(c.lang, c.text, c.file);
+      await breathe();
+      const front = readDesign(c.text, c.file);
+      expect(hasErrors(front.diagnostics), c.file).toBe(false);
+      expect(front.diagnostics.filter((d) => d.code === "GW2006")).toHaveLength(50);
+      const rest = front.diagnostics.filter((d) => d.code === "GW2034");
+      expect(rest).toHaveLength(1);
+      // 131,072 inputs, i0 used: 131,071 warnings, 50 shown.
+      expect(rest[0]!.message).toContain("131,021 more GW2006 warnings");
+    }
   }, 120_000);
 
-  it.fails("equations: 150,000 drivers of one signal on a 1 MB line give capped errors, not a stack overflow", () => {
-    expectClean("equations", `input a;\noutput y;\n${"y = a; ".repeat(150_000)}\n`, "drivers.logic");
+  it("equations: 150,000 drivers of one signal on a 1 MB line give capped errors, not a stack overflow", async () => {
+    await breathe();
+    const text = `input a;\noutput y;\n${"y = a; ".repeat(150_000)}\n`;
+    expectClean("equations", text, "drivers.logic");
+    await breathe();
+    const front = readDesign(text, "drivers.logic");
+    // The first assignment drives y; each of the other 149,999 is a second driver.
+    expect(front.diagnostics.filter((d) => d.code === "GW2002")).toHaveLength(50);
+    expect(front.diagnostics.find((d) => d.code === "GW2034")?.message).toContain("149,949 more errors not shown");
+    expect(front.graph).toBeUndefined();
   }, 120_000);
 
-  // Bug: a deep module hierarchy exhausts memory. Each level's names are prefixed with the
-  // instance path when the top module is flattened (src/parse/verilog-flatten.ts), so the total
-  // length of the names grows with the square of the depth: 8,000 levels (a 574 KB file) make
-  // about 387 million characters of names and 0.9 GB; 100,000 levels (about 7 MB) end the
-  // process with "JavaScript heap out of memory" (in buildLogicGraph's string comparisons,
-  // after parseVerilog took 21 s). MAX_FLAT_ITEMS counts nets, not name length. Skipped because
-  // the failure kills the worker; flip it once the depth or the name length is limited (GW2022).
-  it.skip("verilog: a module hierarchy 20,000 levels deep is rejected or read in bounded memory", () => {
-    const n = 20_000;
-    const text = Array.from({ length: n }, (_, i) =>
-      i < n - 1 ? `module m${i}(a, y); input a; output y; m${i + 1} u(.a(a), .y(y)); endmodule` : `module m${i}(a, y); input a; output y; not (y, a); endmodule`,
+  // Regression (was "JavaScript heap out of memory"): each level's names are prefixed with the
+  // instance path when the top module is flattened, so the total length of the names grows
+  // with the square of the depth: 8,000 levels (a 574 KB file) made about 387 million
+  // characters of names and 0.9 GB; 100,000 levels (7 MB) ended the process. Now the depth is
+  // limited to MAX_HIERARCHY_DEPTH levels (GW2035 at the instance that passes it) and the
+  // names' total length to MAX_FLAT_NAME_CHARS (GW2022), both computed before flattening
+  // (src/parse/verilog-flatten.ts).
+  const chainOfModules = (n: number, instanceName = "u") =>
+    Array.from({ length: n }, (_, i) =>
+      i < n - 1 ? `module m${i}(a, y); input a; output y; m${i + 1} ${instanceName}(.a(a), .y(y)); endmodule` : `module m${i}(a, y); input a; output y; not (y, a); endmodule`,
     ).join("\n");
+
+  it("verilog: a module hierarchy 20,000 levels deep is rejected or read in bounded memory", async () => {
+    expect(MAX_HIERARCHY_DEPTH).toBe(2000);
+    await breathe();
+    const text = chainOfModules(20_000);
     expectClean("verilog", text, "hier.v");
+    await breathe();
+    const res = parseVerilog(text, "hier.v");
+    const deep = res.diagnostics.filter((d) => d.code === "GW2035");
+    expect(deep).toHaveLength(1);
+    // Module m0 is the top; the instance 'u' inside m2000 (of m2001) is level 2,001.
+    const inM2000 = text.indexOf("m2001 u(") + "m2001 ".length;
+    expect(deep[0]!.start).toBe(inM2000);
+    expect(deep[0]!.message).toContain("instance 'u' of module 'm2001' in module 'm2000' is level 2,001");
+    expect(deep[0]!.message).toContain("19,999 levels deep");
+  }, 120_000);
+
+  it("verilog: a hierarchy at the depth limit reads; one level more is GW2035", async () => {
+    await breathe();
+    // m0 .. m2000: 2,000 levels of instances below m0.
+    const at = parseVerilog(chainOfModules(MAX_HIERARCHY_DEPTH + 1), "limit.v");
+    expect(hasErrors(at.diagnostics)).toBe(false);
+    expect(at.value?.wires.some((w) => w.name === `${"u.".repeat(MAX_HIERARCHY_DEPTH)}y`)).toBe(true);
+    const beyond = parseVerilog(chainOfModules(MAX_HIERARCHY_DEPTH + 2), "limit.v");
+    expect(beyond.diagnostics.map((d) => d.code)).toEqual(["GW2035"]);
+  }, 120_000);
+
+  it("verilog: long instance names down a deep hierarchy hit the name-length limit (GW2022), not the memory", () => {
+    // 200 levels with 5,000-character instance names: a 1 MB file whose flattened names would
+    // come to about 600 million characters.
+    const text = chainOfModules(200, "u".repeat(5000));
+    expectClean("verilog", text, "names.v");
+    const res = parseVerilog(text, "names.v");
+    expect(res.diagnostics.map((d) => d.code)).toEqual(["GW2022"]);
+    expect(res.diagnostics[0]!.message).toMatch(/characters of hierarchical names.*more than the limit of 100,000,000/);
+  }, 120_000);
+});
+
+// ---------------------------------------------------------------------------------------------
+// Encodings and line ends: a byte-order mark, CRLF (DOS) and CR-only line ends, UTF-16 text
+
+describe("encodings and line ends", () => {
+  const samples = [
+    { lang: "equations" as const, file: "enc.logic", text: LOGIC_SEEDS.find((s) => s.name === "pump.logic")?.text ?? LOGIC_SEEDS[0]!.text },
+    { lang: "verilog" as const, file: "enc.v", text: VERILOG_SEEDS.find((s) => s.name === "c17.v")?.text ?? VERILOG_SEEDS[0]!.text },
+  ];
+  /** What a reader made of a file, without positions (which move with the line ends). */
+  const shape = (lang: Lang, text: string, file: string) => {
+    const r = read(lang, text, file);
+    const v = r.value;
+    return { errors: r.diagnostics.filter((d) => d.severity === "error").map((d) => d.code), inputs: v?.inputs.map((d) => d.name), outputs: v?.outputs.map((d) => d.name), assignments: v?.assignments.map((a) => a.target) };
+  };
+
+  for (const s of samples) {
+    it(`${s.lang}: a byte-order mark and CRLF line ends read as the plain file does`, () => {
+      const plain = shape(s.lang, s.text, s.file);
+      expect(plain.errors).toEqual([]);
+      for (const variant of ["\ufeff" + s.text, s.text.replace(/\n/g, "\r\n"), "\ufeff" + s.text.replace(/\n/g, "\r\n")]) {
+        expectClean(s.lang, variant, s.file);
+        expect(shape(s.lang, variant, s.file)).toEqual(plain);
+      }
+      // CR-only line ends (as classic Mac OS wrote them): the readers end comments at LF only,
+      // so the shell turns each lone CR into LF when it reads a file (src/cli/options.ts);
+      // here the reader must at least not fail.
+      expectClean(s.lang, s.text.replace(/\n/g, "\r"), s.file);
+      expect(shape(s.lang, normalizeLineEnds(s.text.replace(/\n/g, "\r")), s.file)).toEqual(plain);
+    });
+
+    it(`${s.lang}: UTF-16 text (NUL bytes when read as UTF-8) is GW1008 at the first NUL`, () => {
+      const bytes = Buffer.from("\ufeff" + s.text, "utf16le");
+      const text = bytes.toString("utf8");
+      expectClean(s.lang, text, s.file);
+      const r = read(s.lang, text, s.file);
+      expect(r.diagnostics.map((d) => d.code)).toEqual(["GW1008"]);
+      expect(r.diagnostics[0]!.start).toBe(text.indexOf("\u0000"));
+    });
+  }
+
+  it("an error in a CRLF file is printed at its line and column", () => {
+    const text = "input a, b;\r\noutput y;\r\ny = a & bb;\r\n";
+    const r = parseEquations(text, "crlf.logic");
+    const d = r.diagnostics.find((x) => x.severity === "error") ?? readDesign(text, "crlf.logic").diagnostics.find((x) => x.severity === "error")!;
+    // 'bb' is the ninth character of the third line.
+    expect(formatDiagnostic(d, () => text).split("\n")[0]).toMatch(/^crlf\.logic:3:9: error GW2001/);
   });
+});
+
+// ---------------------------------------------------------------------------------------------
+// 1 MB lines through the whole pipeline
+
+describe("synthesize() on expressions of 150,000 operands", () => {
+  // Regression (was GW9001 "Maximum call stack size exceeded"): the optimizer and the logic
+  // checks pushed a node's fan-ins with `stack.push(...fanins)`, one argument per operand;
+  // `y = a & b & b & ...` with 262,144 operands on one 1 MB line failed in liveNodes
+  // (src/optimize/builder.ts). Now every such list is appended element by element.
+  const n = 150_000;
+  const cases = [
+    { file: "wide.logic", text: `input a, b;\noutput y;\ny = a${" & b".repeat(n)};\n` },
+    { file: "wide.v", text: `module wide(a, b, y); input a, b; output y; and (y${", a, b".repeat(n / 2)}); endmodule\n` },
+  ];
+  for (const c of cases) {
+    it(`${c.file}: files, no internal error`, async () => {
+      await breathe();
+      const r = synthesize(c.text, c.file, { maxFanin: 8, cells: "mixed", sizing: { supplyVolts: 5 }, commandLine: "gatewright synth wide", opt: 1 });
+      expect(r.diagnostics.filter((d) => d.severity === "error").map((d) => `${d.code} ${d.message}`)).toEqual([]);
+      expect(r.files?.length).toBeGreaterThan(0);
+    }, 180_000);
+  }
 });
 
 // ---------------------------------------------------------------------------------------------
