@@ -3,7 +3,7 @@
 // Modelled on how circuit simulators organise a device: parameter table, setup of defaults,
 // temperature/corner adjustment, evaluation.
 import type { CellFunction } from "../map/types.js";
-import type { DeviceAtTemp } from "../electrical/devices.js";
+import type { DeviceAtTemp, SchottkyAtTemp } from "../electrical/devices.js";
 
 export type ComponentKind = "R" | "D" | "Q" | "C";
 
@@ -18,10 +18,10 @@ export interface TopologyComponent {
   nodes: string[];
   /** For input diodes: the 1-based input pin the component belongs to. */
   inputPin?: number;
-  /** For resistors: the key in the cell's value record ("rpOhms"). */
+  /** For resistors and capacitors: the key in the cell's value record ("rpOhms", "csuFarads"). */
   valueKey?: string;
-  /** For diodes and transistors: which device model. */
-  model?: "diode" | "npn";
+  /** For diodes and transistors: which device model ("schottky": the fast cells' clamp diode). */
+  model?: "diode" | "npn" | "schottky";
 }
 
 export interface CellTopology {
@@ -47,6 +47,8 @@ export interface CellEnv {
   /** Fraction of an equal share of a driver's high-state current that the weakest of several
    *  diode-OR loads is sure to get. */
   orShareFactor: number;
+  /** The clamp diode's forward drops at this temperature (fast cells; absent: the defaults). */
+  schottky?: SchottkyAtTemp;
 }
 
 /** What hangs on a cell's output. */
@@ -61,6 +63,13 @@ export interface OutputLoad {
   orClampVolts: number;
   /** Load capacitance on the output node (inputs plus wiring). */
   capacitanceFarads: number;
+  /** Charge the output must take from speed-up capacitors of diode-AND loads as it falls (the
+   *  loads' input nodes swing down through their capacitors). */
+  speedUpChargeCoulombs?: number;
+  /** Wired-AND: other open-collector transistors tied onto this output's net (0 or absent: the
+   *  output is the cell's own). Each adds its collector junction to the net's capacitance and
+   *  its leakage to the current R_C carries when the net is high. */
+  tiedCollectors?: number;
 }
 
 /** What drives a cell's inputs, at its weakest. */
@@ -168,6 +177,9 @@ export interface CellDefinition {
   timingHints?: { nodePullUpKeys: string[]; follower: boolean };
   /** Default values for a quick start (also the published example the cell follows). */
   exampleValues: CellValues;
+  /** Fast variants: the speed-up capacitor (its value key) and the Schottky clamp, and the cell
+   *  they are built on. */
+  speedUp?: { capacitorKey?: string; clamp: boolean; baseId: string };
 
   topology(fanin: number): CellTopology;
 

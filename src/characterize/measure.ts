@@ -318,7 +318,10 @@ export function readCharacterization(
         if (analytic !== undefined) c.analyticOk = analytic;
         checks.push(c);
       };
-      check("saturation", me.vOL, vce, "V", "max", me.vOLWhere, analyticOk("saturation"));
+      // A clamped fast cell (Schottky base–collector) never saturates by design: its claim is a
+      // low level of at most V_BE − V_F (the sizing's worst case), not V_CE(sat).
+      const vOLClaim = def.speedUp?.clamp ? Math.max(vce, a.vOLVolts) : vce;
+      check("saturation", me.vOL, vOLClaim, "V", "max", me.vOLWhere, analyticOk("saturation"));
       // Receiver view: the drivers feeding this type.
       let nmL = Infinity;
       let nmLWhere = "";

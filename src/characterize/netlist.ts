@@ -72,6 +72,8 @@ function npnCard(design: SizedDesign, name: string, bf: number): string {
 function modelCards(design: SizedDesign, betaMin: number, betaMax: number | undefined): string {
   const npn = design.models.npn;
   const cards = [card(design.models.diode), npnCard(design, npn.name, betaMin)];
+  // The fast cells' Schottky clamp diode.
+  if (design.models.schottky) cards.push(card(design.models.schottky));
   if (betaMax !== undefined) cards.push(npnCard(design, npn.name + FAST_MODEL_SUFFIX, betaMax));
   return cards.join("\n");
 }
@@ -108,7 +110,7 @@ function subckt(design: SizedDesign, typeIndex: number, name: string, factors: R
       if (v === undefined) throw new Error(`${t.key}: no value for ${c.valueKey}`);
       const scaled = c.kind === "R" ? (v * (factors[c.valueKey!] ?? 1)) / count : v * count;
       lines.push(`${c.name} ${nodes} ${spiceNumber(scaled, 8)}`);
-    } else if (c.kind === "D") lines.push(`${c.name} ${nodes} ${design.models.diode.name}${area}`);
+    } else if (c.kind === "D") lines.push(`${c.name} ${nodes} ${c.model === "schottky" && design.models.schottky ? design.models.schottky.name : design.models.diode.name}${area}`);
     else lines.push(`${c.name} ${nodes} ${c.role === "Q" ? outputModel : npnModel}${area}`);
   }
   lines.push(".ends");

@@ -53,7 +53,7 @@ export const CATALOGUE = {
   GW2015: { severity: "error", title: "bit-vector range or index out of range" },
   GW2016: { severity: "error", title: "function variable is not a declared input" },
   GW2017: { severity: "error", title: "variable listed twice" },
-  // GW2030-GW2039 (below): state elements and initial values (src/sequential).
+  // GW2030-GW2033 (below): state elements and initial values (src/sequential).
   // GW2020-GW2029: structure of structural Verilog (src/parse/verilog*.ts).
   GW2020: { severity: "error", title: "port list and port declarations disagree" },
   GW2021: { severity: "error", title: "bit widths do not match" },
@@ -63,6 +63,9 @@ export const CATALOGUE = {
   GW2031: { severity: "error", title: "initial value given twice" },
   GW2032: { severity: "error", title: "name taken by a state element's internal signal" },
   GW2033: { severity: "warning", title: "initial value for a signal that stores no state" },
+  // GW2034-GW2039: limits of a stage's work and output (src/diagnostics/limit.ts, src/parse).
+  GW2034: { severity: "note", title: "more diagnostics of this kind not shown" },
+  GW2035: { severity: "error", title: "module hierarchy too deep" },
 
   GW3001: { severity: "note", title: "stored state found" },
   GW3002: { severity: "warning", title: "equivalence check was partial" },
@@ -80,13 +83,17 @@ export const CATALOGUE = {
   GW4002: { severity: "error", title: "fan-out limit too small" },
   GW4003: { severity: "note", title: "fan-out limited by buffering or duplicating cells" },
   GW4004: { severity: "note", title: "wired-AND outputs used" },
-  GW4005: { severity: "error", title: "wired-AND outputs cannot be sized yet" },
+  // Retired: wired-AND nets are sized since (src/electrical); the code is not reused.
+  GW4005: { severity: "error", title: "wired-AND outputs cannot be sized yet", retired: true },
 
   GW5001: { severity: "error", title: "no standard resistor values meet the constraints" },
   GW5002: { severity: "warning", title: "part rating exceeded" },
   GW5003: { severity: "warning", title: "high supply voltage" },
   GW5004: { severity: "warning", title: "small saturation margin" },
   GW5005: { severity: "note", title: "high-fan-out cell variant chosen" },
+  GW5006: { severity: "warning", title: "base resistor does not hold a wired-AND transistor off against its leakage" },
+  // GW5010-GW5019: fast cell variants (speed-up capacitor, Schottky clamp).
+  GW5010: { severity: "note", title: "fast cell variant chosen for the speed budget" },
 
   GW6001: { severity: "error", title: "bad option value" },
   GW6002: { severity: "error", title: "bad quantity or unit" },

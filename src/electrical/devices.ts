@@ -76,6 +76,8 @@ export interface DeviceData {
   npnVceMaxVolts: number;
   npnIcMaxAmps: number;
   npnPowerMaxWatts: number;
+  /** The fast cells' clamp diode (absent: the defaults, DEFAULT_SCHOTTKY). */
+  schottky?: SchottkyData;
 }
 
 export const DEFAULT_DEVICES: DeviceData = {
@@ -180,6 +182,7 @@ export interface NpnPart {
 export interface PartsFile {
   diode?: DiodePart;
   npn?: NpnPart;
+  schottky?: SchottkyPart;
 }
 
 // SPICE parameter names accepted in model overrides (ngspice diode and Gummel–Poon BJT).
@@ -261,10 +264,10 @@ export function validatePartsFile(data: unknown, file?: string): StageResult<Par
   }
   const out: PartsFile = {};
   for (const key of Object.keys(data)) {
-    if (key !== "diode" && key !== "npn") bad(key, "unknown entry", 'the known entries are "diode" and "npn"');
+    if (key !== "diode" && key !== "npn" && key !== "schottky") bad(key, "unknown entry", 'the known entries are "diode", "npn" and "schottky"');
   }
   const readPart = (
-    key: "diode" | "npn",
+    key: "diode" | "npn" | "schottky",
     fields: Record<string, FieldKind>,
     params: Set<string>,
   ): Record<string, unknown> | undefined => {
@@ -286,7 +289,7 @@ export function validatePartsFile(data: unknown, file?: string): StageResult<Par
         for (const [p, pv] of Object.entries(v)) {
           const name = p.toUpperCase();
           if (!params.has(name)) {
-            bad(`${path}.${p}`, `unknown ${key === "diode" ? "diode" : "NPN"} model parameter`);
+            bad(`${path}.${p}`, `unknown ${key === "npn" ? "NPN" : "diode"} model parameter`);
             continue;
           }
           const r = readNumber(pv, "count");
@@ -319,6 +322,8 @@ export function validatePartsFile(data: unknown, file?: string): StageResult<Par
   const npn = readPart("npn", NPN_FIELDS, NPN_PARAMS);
   if (diode) out.diode = diode as DiodePart;
   if (npn) out.npn = npn as NpnPart;
+  const schottky = readPart("schottky", SCHOTTKY_FIELDS, DIODE_PARAMS);
+  if (schottky) out.schottky = schottky as SchottkyPart;
   // Cross-field sense checks.
   if (out.npn?.betaMin !== undefined && out.npn.betaMax !== undefined && out.npn.betaMax < out.npn.betaMin)
     bad("npn.betaMax", "must not be below npn.betaMin");
@@ -338,7 +343,7 @@ export function parsePartsFile(text: string, file?: string): StageResult<PartsFi
     const msg = e instanceof Error ? e.message : String(e);
     const pos = /position (\d+)/.exec(msg);
     const at = pos ? Number(pos[1]) : jsonErrorOffset(text);
-    const span = at !== undefined ? { start: Math.min(at, text.length), length: 1 } : undefined;
+    const span = at !== undefined ? { start: Math.min(at, text.length), length: at < text.length ? 1 : 0 } : undefined;
     const where: { file?: string; span?: { start: number; length: number } } = {};
     if (file !== undefined) where.file = file;
     if (span) where.span = span;
@@ -467,8 +472,108 @@ export function resolveDevices(parts: PartsFile | undefined): DeviceData {
     npnVceMaxVolts: np?.vceMaxVolts ?? d.npnVceMaxVolts,
     npnIcMaxAmps: np?.icMaxAmps ?? d.npnIcMaxAmps,
     npnPowerMaxWatts: np?.pMaxWatts ?? d.npnPowerMaxWatts,
+    schottky: resolveSchottky(parts?.schottky),
   };
   if (dp?.partNumber !== undefined) out.diodePartNumber = dp.partNumber;
   if (np?.partNumber !== undefined) out.npnPartNumber = np.partNumber;
   return out;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Schottky clamp diode: the anti-saturation clamp of the fast cells (base to collector, the
+// Baker clamp idea, common practice). Overridable in the parts file under "schottky".
+
+/** Generic small-signal Schottky diode, 30 V class. Parameter values are typical of public model
+ *  libraries for that class (from memory; chosen inside the ranges those libraries show): about
+ *  0.31 V at 1 mA, about 10 pF at zero bias, no stored charge (majority carriers, TT 0). */
+export const DEFAULT_SCHOTTKY_MODEL: ModelCard = {
+  name: "D_GW_SCH",
+  type: "D",
+  params: { IS: 1e-8, N: 1.05, RS: 2, CJO: 10e-12, M: 0.35, VJ: 0.35, TT: 0, BV: 30, IBV: 1e-5, EG: 0.69, XTI: 2 },
+  description: "small-signal Schottky diode, 30 V",
+};
+
+export interface SchottkyData {
+  card: ModelCard;
+  /** Forward drop while clamping at a typical current (0.35 V at 25 °C). */
+  vForwardVolts: number;
+  /** Least forward drop while clamping (0.24 V at 25 °C, about 0.07 mA): the low output level of
+   *  a clamped cell is at most V_BE − this. */
+  vForwardMinVolts: number;
+  /** Change of the forward drop with temperature (−1.5 mV/°C: the SPICE diode equation,
+   *  dV/dT = (V − EG − XTI·n·V_T)/T, with EG 0.69 eV, XTI 2 at 0.3 V gives −1.5 mV/K). */
+  tempCoVoltsPerC: number;
+  vReverseMaxVolts: number;
+  iForwardMaxAmps: number;
+  partNumber?: string;
+}
+
+export interface SchottkyPart {
+  partNumber?: string;
+  description?: string;
+  model?: Record<string, number>;
+  vForwardVolts?: number;
+  vForwardMinVolts?: number;
+  vReverseMaxVolts?: number;
+  iForwardMaxAmps?: number;
+}
+
+const SCHOTTKY_FIELDS: Record<string, FieldKind> = {
+  partNumber: { dim: "text", positive: false },
+  description: { dim: "text", positive: false },
+  vForwardVolts: { dim: "voltage", positive: true },
+  vForwardMinVolts: { dim: "voltage", positive: true },
+  vReverseMaxVolts: { dim: "voltage", positive: true },
+  iForwardMaxAmps: { dim: "current", positive: true },
+};
+
+/** The default Schottky data (ratings of the 30 V / 200 mA small-signal class, from memory). */
+export const DEFAULT_SCHOTTKY: SchottkyData = {
+  card: DEFAULT_SCHOTTKY_MODEL,
+  vForwardVolts: 0.35,
+  vForwardMinVolts: 0.24,
+  tempCoVoltsPerC: -0.0015,
+  vReverseMaxVolts: 30,
+  iForwardMaxAmps: 0.2,
+};
+
+/** Applies a parts file's "schottky" entry over the defaults. */
+export function resolveSchottky(part: SchottkyPart | undefined): SchottkyData {
+  const d = DEFAULT_SCHOTTKY;
+  const card: ModelCard = {
+    ...d.card,
+    params: { ...d.card.params, ...(part?.model ?? {}) },
+    description: part?.description ?? d.card.description,
+  };
+  if (part?.partNumber !== undefined) card.partNumber = part.partNumber;
+  const out: SchottkyData = {
+    card,
+    vForwardVolts: part?.vForwardVolts ?? d.vForwardVolts,
+    vForwardMinVolts: part?.vForwardMinVolts ?? Math.min(d.vForwardMinVolts, part?.vForwardVolts ?? Infinity),
+    tempCoVoltsPerC: d.tempCoVoltsPerC,
+    vReverseMaxVolts: part?.vReverseMaxVolts ?? (part?.model?.BV !== undefined ? part.model.BV : d.vReverseMaxVolts),
+    iForwardMaxAmps: part?.iForwardMaxAmps ?? d.iForwardMaxAmps,
+  };
+  if (part?.partNumber !== undefined) out.partNumber = part.partNumber;
+  return out;
+}
+
+/** The Schottky's forward drops at one temperature. */
+export interface SchottkyAtTemp {
+  vForwardVolts: number;
+  vForwardMinVolts: number;
+  /** The model card's parameters and the temperature (for drops at a given current). */
+  params: Record<string, number>;
+  tempC: number;
+  tempCoVoltsPerC: number;
+}
+
+export function schottkyAt(s: SchottkyData, tempC: number): SchottkyAtTemp {
+  return {
+    vForwardVolts: junctionDropAt(s.vForwardVolts, tempC, s.tempCoVoltsPerC),
+    vForwardMinVolts: junctionDropAt(s.vForwardMinVolts, tempC, s.tempCoVoltsPerC),
+    params: s.card.params,
+    tempC,
+    tempCoVoltsPerC: s.tempCoVoltsPerC,
+  };
 }

@@ -1,8 +1,9 @@
 // Worst-case evaluation of one cell kind with candidate values over its load situations, every
 // corner (supply × temperature) and every resistor-tolerance case the cell names.
-import type { CellDefinition, CellEnv, CellValues, ComponentStress, InputDrive, OutputLoad } from "../cells/types.js";
-import { shareFactor } from "../cells/output-stage.js";
-import { devicesAt } from "./devices.js";
+import type { CellDefinition, CellEnv, CellOperatingPoint, CellValues, ComponentStress, InputDrive, OutputLoad } from "../cells/types.js";
+import { onWiredNet, shareFactor } from "../cells/output-stage.js";
+import { collectorLeakageAmps, diodeReverseLeakageAmps } from "./leakage.js";
+import { DEFAULT_SCHOTTKY, devicesAt, schottkyAt } from "./devices.js";
 import type { ResolvedOptions } from "./options.js";
 import { reduceSituations, type Situation, type SituationSet } from "./situations.js";
 import { cellTiming, typicalDrops, type TimingInputs } from "./timing.js";
@@ -37,10 +38,10 @@ export function buildCorners(o: ResolvedOptions): { corners: Corner[]; nominal: 
   const corners: Corner[] = [];
   for (const v of vs)
     for (const t of ts)
-      corners.push({ label: `${round(v)} V, ${t} °C`, env: { vccVolts: v, dev: devicesAt(o.devices, t), orShareFactor: o.orShareFactor } });
+      corners.push({ label: `${round(v)} V, ${t} °C`, env: { vccVolts: v, dev: devicesAt(o.devices, t), orShareFactor: o.orShareFactor, schottky: schottkyAt(o.devices.schottky ?? DEFAULT_SCHOTTKY, t) } });
   const nominal: Corner = {
     label: `${round(o.supplyVolts)} V, 25 °C, nominal parts`,
-    env: { vccVolts: o.supplyVolts, dev: devicesAt(o.devices, 25), orShareFactor: o.orShareFactor },
+    env: { vccVolts: o.supplyVolts, dev: devicesAt(o.devices, 25), orShareFactor: o.orShareFactor, schottky: schottkyAt(o.devices.schottky ?? DEFAULT_SCHOTTKY, 25) },
   };
   return { corners, nominal };
 }
@@ -87,6 +88,15 @@ export interface EvalContext {
   gateDelayMaxSeconds?: number;
   /** Constraints left out (to find which one blocks an infeasible request). */
   disabled?: ReadonlySet<number>;
+  /** Collector resistor of the wired-AND nets (nominal): the shared R_C of a uniform design, the
+   *  one every wired net keeps in a per-gate design. Absent: the evaluated cell's own R_C. */
+  wiredRcOhms?: number;
+  /** Fast variants: the highest low level a driver gives when the drivers may be clamped cells
+   *  (V_BE − V_F of the Schottky clamp; absent: V_CE(sat)). */
+  driverLowVolts?: (env: CellEnv) => number;
+  /** Fast variants: what the loads' speed-up capacitors add to a situation's output: charge
+   *  sunk on the fall (diode-AND loads) and capacitance (diode-OR loads). */
+  loadSpeedUp?: (s: Situation, env: CellEnv) => { chargeCoulombs: number; farads: number };
 }
 
 export interface TypeEval {
@@ -100,30 +110,62 @@ function loadFor(ctx: EvalContext, s: Situation, def: CellDefinition, values: Ce
   let sink = 0;
   for (const [id, n] of s.andLoadsByType) sink += n * ctx.andLoadAmps(id, c, { def, values }, tol, env);
   const cjo = ctx.opts.devices.diode.params.CJO ?? 0;
-  return {
+  const load: OutputLoad = {
     andLoads: s.andLoads,
     andSinkAmps: sink,
     orLoads: s.orLoads,
     orClampVolts: ctx.orClampVolts(env),
     capacitanceFarads: s.loadPins * (cjo + ctx.opts.wiringCapacitancePerLoadFarads) + Math.max(s.andLoads + s.orLoads - s.loadPins, 0) * ctx.opts.wiringCapacitancePerLoadFarads,
   };
+  if (s.tiedCollectors > 0) load.tiedCollectors = s.tiedCollectors;
+  if (ctx.loadSpeedUp) {
+    const su = ctx.loadSpeedUp(s, env);
+    load.capacitanceFarads += su.farads;
+    if (su.chargeCoulombs > 0) load.speedUpChargeCoulombs = su.chargeCoulombs;
+  }
+  return load;
+}
+
+/** Current a wired net's R_C carries when the net is high besides diode-OR loads: `collectors`
+ *  off transistors leaking I_CBO (bases held off through R_B) and `andLoads` reverse-biased input
+ *  diodes, at the corner's temperature (src/electrical/leakage.ts). */
+export function wiredHighLeakageAmps(ctx: EvalContext, env: CellEnv, collectors: number, andLoads: number): number {
+  const dev = ctx.opts.devices;
+  return collectors * collectorLeakageAmps(dev.npn.params, env.dev.tempC) + andLoads * diodeReverseLeakageAmps(dev.diode.params, env.dev.tempC);
 }
 
 function driveFor(ctx: EvalContext, s: Situation, values: CellValues, env: CellEnv, tol: number): InputDrive {
   const clamp = ctx.orClampVolts(env);
-  const vHigh = s.inputsSeeOrClamp ? Math.min(env.vccVolts, clamp) : env.vccVolts;
+  let vHigh = s.inputsSeeOrClamp ? Math.min(env.vccVolts, clamp) : env.vccVolts;
+  // An input on a wired net: the net's high level droops by the leakage through its R_C (at
+  // its high end), and a diode-OR input gets that much less of R_C's current.
+  let leak = 0;
+  if (s.inputWiredCollectors > 1) {
+    const rc = (ctx.wiredRcOhms ?? values.rcOhms ?? 0) * (1 + tol);
+    leak = wiredHighLeakageAmps(ctx, env, s.inputWiredCollectors, s.inputWiredAndLoads);
+    vHigh = Math.min(vHigh, env.vccVolts - leak * rc);
+  }
   if (s.def.inputKind !== "or") {
-    return { vLowMaxVolts: env.dev.vCESatVolts, vHighMinVolts: vHigh, orSourceAmps: 0, orSourceOhms: Infinity, orSourceMaxAmps: 0 };
+    return { vLowMaxVolts: ctx.driverLowVolts?.(env) ?? env.dev.vCESatVolts, vHighMinVolts: vHigh, orSourceAmps: 0, orSourceOhms: Infinity, orSourceMaxAmps: 0 };
   }
   const rs = ctx.orSourceOhms(s, values, tol, env);
   const rsMin = ctx.orSourceMinOhms(values, tol);
   return {
-    vLowMaxVolts: env.dev.vCESatVolts,
+    vLowMaxVolts: ctx.driverLowVolts?.(env) ?? env.dev.vCESatVolts,
     vHighMinVolts: vHigh,
-    orSourceAmps: Math.max(0, env.vccVolts - clamp) / rs,
+    orSourceAmps: Math.max(0, Math.max(0, env.vccVolts - clamp) / rs - leak),
     orSourceOhms: rs,
     orSourceMaxAmps: Math.max(0, env.vccVolts - clamp) / rsMin,
   };
+}
+
+/** A cell's analysis at one point, corrected for its place on a wired net (if any). */
+function analyzeAt(ctx: EvalContext, s: Situation, v: CellValues, env: CellEnv, load: OutputLoad, drive: InputDrive): CellOperatingPoint {
+  const op = s.def.analyze(v, env, load, drive);
+  if (s.tiedCollectors === 0 && s.ownsPullUp) return op;
+  const collectors = s.tiedCollectors + 1;
+  const leak = s.tiedCollectors > 0 ? wiredHighLeakageAmps(ctx, env, collectors, s.andLoads) : 0;
+  return onWiredNet(op, env, load, v.rcOhms!, { ownsPullUp: s.ownsPullUp, collectors, highLeakageAmps: leak });
 }
 
 function scaled(values: CellValues, factors: Record<string, number>, out: CellValues): CellValues {
@@ -198,7 +240,7 @@ export function evaluateSituation(
     ? {
         iB: Infinity, iC: Infinity, iLoad: 0, sat: Infinity, betaNeeded: 0, vOL: 0, vOH: Infinity, vIL: Infinity, vIH: 0,
         nmL: Infinity, nmH: Infinity, pLow: 0, pHigh: 0, iSupply: 0, maxFanout: Infinity,
-        tPHL: 0, tPLH: 0, ts: 0, ton: 0, tr: 0, cap: 0,
+        tPHL: 0, tPLH: 0, ts: 0, ton: 0, tr: 0, cap: 0, leak: 0,
       }
     : undefined;
   const stresses = detail ? new Map<string, ComponentStress>() : undefined;
@@ -220,7 +262,7 @@ export function evaluateSituation(
       const tc = cases[k]!;
       caseNow = k;
       const v = scaled(values, tc.factors, detail ? {} : tc.scratch);
-      const op = def.analyze(v, env, load, drive);
+      const op = analyzeAt(ctx, s, v, env, load, drive);
       note(CI.saturation, op.satMargin, o.saturationMarginMin);
       note(CI["noise-margin-low"], op.noiseMarginLowVolts, o.noiseMarginMinVolts);
       note(CI["noise-margin-high"], op.noiseMarginHighVolts, o.noiseMarginMinVolts);
@@ -238,8 +280,8 @@ export function evaluateSituation(
         const tenv = timingEnv(env, o);
         const tload = loadFor(ctx, s, def, values, c, tenv, ctx.tol);
         const tdrive = driveFor(ctx, s, values, tenv, ctx.tol);
-        const top = def.analyze(v, tenv, tload, tdrive);
-        const ti: TimingInputs = { def, values: v, env: tenv, load: tload, drive: tdrive, op: top, npn: o.devices.npn.params, diode: o.devices.diode.params, fanin: s.fanin, inputWiringFarads: o.wiringCapacitancePerLoadFarads };
+        const top = analyzeAt(ctx, s, v, tenv, tload, tdrive);
+        const ti: TimingInputs = { def, values: v, env: tenv, load: tload, drive: tdrive, op: top, npn: o.devices.npn.params, diode: o.devices.diode.params, fanin: s.fanin, inputWiringFarads: o.wiringCapacitancePerLoadFarads, schottky: (o.devices.schottky ?? DEFAULT_SCHOTTKY).card.params };
         timing = cellTiming(ti);
         if (delayMax !== undefined) {
           note(CI["delay-fall"], timing.tPHLSeconds, delayMax);
@@ -261,6 +303,7 @@ export function evaluateSituation(
         w.pLow = Math.max(w.pLow, op.powerLowWatts);
         w.pHigh = Math.max(w.pHigh, op.powerHighWatts);
         w.iSupply = Math.max(w.iSupply, op.supplyCurrentLowAmps, op.supplyCurrentHighAmps);
+        w.leak = Math.max(w.leak, op.extra.wiredLeakageAmps ?? 0);
         const heavy = ctx.heaviestLoadAmps(c);
         if (heavy > 0 && op.iBAmps > 0) {
           const own = op.iCAmps;
@@ -299,7 +342,7 @@ export function evaluateSituation(
   const nenv = ctx.nominal.env;
   const nload = loadFor(ctx, s, def, values, -1, nenv, 0);
   const ndrive = driveFor(ctx, s, values, nenv, 0);
-  const nop = def.analyze(values, nenv, nload, ndrive);
+  const nop = analyzeAt(ctx, s, values, nenv, nload, ndrive);
   const nominal: OperatingFigures = {
     vccVolts: nop.vccVolts,
     tempC: nop.tempC,
@@ -373,6 +416,7 @@ export function evaluateSituation(
     binding: binding?.id ?? "",
     bindingMargin: binding?.margin ?? Infinity,
   };
+  if (s.tiedCollectors > 0 || !s.ownsPullUp) analysis.wired = { collectors: s.tiedCollectors + 1, ownsPullUp: s.ownsPullUp, highLeakageAmps: w.leak };
   return { worstWatts, analysis, stresses };
 }
 
@@ -449,5 +493,7 @@ export function mergeAnalyses(list: CellAnalysis[]): CellAnalysis {
     bindingMargin: binding?.margin ?? Infinity,
   };
   if (timing) out.timing = timing;
+  const wired = list.filter((a) => a.wired).map((a) => a.wired!);
+  if (wired.length) out.wired = { collectors: Math.max(...wired.map((x) => x.collectors)), ownsPullUp: wired.every((x) => x.ownsPullUp), highLeakageAmps: Math.max(...wired.map((x) => x.highLeakageAmps)) };
   return out;
 }

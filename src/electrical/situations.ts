@@ -22,6 +22,16 @@ export interface Situation {
   orDriveLoads: number;
   /** The output is a primary output. */
   primaryOutput: boolean;
+  /** Wired-AND: other transistors tied onto this cell's output net (0: not a wired net). */
+  tiedCollectors: number;
+  /** False for a cell tied onto another's net (it has no R_C; the net's driver holds it). */
+  ownsPullUp: boolean;
+  /** For a tied cell: the cell id of its net's driver, whose R_C is the pull-up. */
+  pullUpCellId?: string;
+  /** Largest number of transistors on one wired net among this cell's inputs (0: none wired). */
+  inputWiredCollectors: number;
+  /** Largest number of diode-AND loads on one wired net among this cell's inputs. */
+  inputWiredAndLoads: number;
 }
 
 export interface NetLoading {
@@ -60,6 +70,14 @@ export interface SituationOptions {
   fanoutOverride?: number;
   /** Group cells alike (uniform sizing); false gives one situation per cell. */
   group: boolean;
+  /** False: leave out the wired-AND terms (leakage and capacitance of tied collectors), to
+   *  find whether they are what makes a design infeasible. Default true. */
+  wired?: boolean;
+}
+
+/** Transistors on each net: 1 + tied cells for a net driven by a cell, 0 otherwise. */
+export function collectorsOnNets(netlist: CellNetlist): number[] {
+  return netlist.nets.map((n) => (n.driver.kind === "cell" ? 1 + (n.tiedCells?.length ?? 0) : 0));
 }
 
 export function buildSituations(
@@ -77,6 +95,8 @@ export function buildSituations(
   const situations: Situation[] = [];
   const index = new Map<string, number>();
   const byCell: number[] = [];
+  const wiredTerms = opts.wired !== false;
+  const collectors = collectorsOnNets(netlist);
   for (const cell of netlist.cells) {
     const def = defs[cell.index]!;
     const out = loading[cell.output]!;
@@ -101,8 +121,22 @@ export function buildSituations(
     }
     const primaryOutput = netlist.nets[cell.output]?.outputPort !== undefined;
     const fanin = cell.inputs.length;
+    // Wired-AND: the output net's other transistors, and the worst wired net among the inputs.
+    const outNet = netlist.nets[cell.output]!;
+    const ownsPullUp = !cell.tiedOutput;
+    const tiedCollectors = wiredTerms ? Math.max(0, (collectors[cell.output] ?? 1) - 1) : 0;
+    const pullUpCellId = !ownsPullUp && outNet.driver.kind === "cell" ? defs[outNet.driver.cell]!.id : undefined;
+    let inputWiredCollectors = 0;
+    let inputWiredAndLoads = 0;
+    if (wiredTerms)
+      for (const n of cell.inputs) {
+        if ((collectors[n] ?? 0) < 2) continue;
+        inputWiredCollectors = Math.max(inputWiredCollectors, collectors[n]!);
+        inputWiredAndLoads = Math.max(inputWiredAndLoads, loading[n]!.andLoads);
+      }
+    const wiredKey = [ownsPullUp ? "" : `tied:${pullUpCellId}`, tiedCollectors, inputWiredCollectors, inputWiredAndLoads].join("/");
     const key = opts.group
-      ? [def.id, fanin, andLoadsByType.map(([t, c]) => `${t}:${c}`).join(","), orLoads, loadPins, inputsSeeOrClamp ? 1 : 0, orDriveLoads].join("|")
+      ? [def.id, fanin, andLoadsByType.map(([t, c]) => `${t}:${c}`).join(","), orLoads, loadPins, inputsSeeOrClamp ? 1 : 0, orDriveLoads, wiredKey].join("|")
       : `cell${cell.index}`;
     let si = index.get(key);
     if (si === undefined) {
@@ -120,6 +154,11 @@ export function buildSituations(
         inputsSeeOrClamp,
         orDriveLoads,
         primaryOutput,
+        tiedCollectors,
+        ownsPullUp,
+        ...(pullUpCellId !== undefined ? { pullUpCellId } : {}),
+        inputWiredCollectors,
+        inputWiredAndLoads,
       });
     }
     situations[si]!.cells.push(cell.index);
@@ -142,15 +181,20 @@ function dominates(a: Situation, b: Situation): boolean {
   if (a.orLoads < b.orLoads || a.loadPins < b.loadPins || a.orDriveLoads < b.orDriveLoads || a.fanin < b.fanin) return false;
   if (b.inputsSeeOrClamp && !a.inputsSeeOrClamp) return false;
   if (a.andLoads < b.andLoads) return false;
+  // Wired-AND: more tied collectors (capacitance, leakage) and worse wired inputs are harder;
+  // the driver of a wired net carries R_C's current in both states (power).
+  if (a.tiedCollectors < b.tiedCollectors || a.inputWiredCollectors < b.inputWiredCollectors || a.inputWiredAndLoads < b.inputWiredAndLoads) return false;
+  if (b.ownsPullUp && !a.ownsPullUp) return false;
   const count = (s: Situation, id: string): number => s.andLoadsByType.find(([t]) => t === id)?.[1] ?? 0;
   for (const [id, n] of b.andLoadsByType) if (count(a, id) < n) return false;
   return true;
 }
 
 /** Reduces situations of one kind to what decides feasibility and power. A situation with no
- *  fewer loads of every kind, no fewer diode-OR loads on its inputs' drivers, no smaller fan-in
- *  and no better input levels is at least as hard for every constraint; power depends only on
- *  the cell kind and whether the output feeds diode-OR loads. */
+ *  fewer loads of every kind, no fewer diode-OR loads on its inputs' drivers, no smaller fan-in,
+ *  no fewer tied collectors and no better input levels is at least as hard for every constraint;
+ *  power depends only on the cell kind, whether the output feeds diode-OR loads and how the
+ *  cell sits on a wired net (driver or tied). */
 export function reduceSituations(situations: readonly Situation[]): SituationSet {
   const constraint: Situation[] = [];
   for (const s of situations) {
@@ -159,7 +203,7 @@ export function reduceSituations(situations: readonly Situation[]): SituationSet
   }
   const groups = new Map<string, { situation: Situation; cells: number }>();
   for (const s of situations) {
-    const k = `${s.def.id}|${s.orLoads > 0 ? 1 : 0}`;
+    const k = `${s.def.id}|${s.orLoads > 0 ? 1 : 0}|${s.ownsPullUp ? 1 : 0}|${s.tiedCollectors > 0 ? 1 : 0}`;
     const g = groups.get(k);
     if (g) g.cells += s.cells.length;
     else groups.set(k, { situation: s, cells: s.cells.length });

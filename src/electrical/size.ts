@@ -2,12 +2,14 @@
 // resistor tolerance; standard values from an IEC 60063 series; the least worst-case power that
 // meets every constraint; stable designators. Pure: no files, no console, never throws for the
 // user's mistakes.
-import { basicCellFor, cellById, CELLS, variantsFor } from "../cells/registry.js";
-import { shareFactor } from "../cells/output-stage.js";
-import type { CellDefinition, CellEnv, CellValues, ComponentStress } from "../cells/types.js";
+import { basicCellFor, cellById, CELLS, fastVariantsOf, variantsFor } from "../cells/registry.js";
+import { CAPACITOR_KEY, CAPACITOR_TOLERANCE_KEY, CAPACITOR_VOLTAGE_RATINGS, capacitorVoltageRating, clampedLowVolts, inputNodeOnVolts } from "../cells/fast-kit/index.js";
+import { DEFAULT_SCHOTTKY } from "./devices.js";
+import { openCollectorTopology, shareFactor } from "../cells/output-stage.js";
+import type { CellDefinition, CellEnv, CellTopology, CellValues, ComponentStress } from "../cells/types.js";
 import { diag, type Diagnostic, type StageResult } from "../diagnostics/index.js";
 import type { CellNetlist } from "../map/types.js";
-import { formatOhms, valuesInRange } from "./eseries.js";
+import { formatFarads, formatOhms, seriesMantissas, valuesInRange } from "./eseries.js";
 import {
   buildCorners,
   CONSTRAINTS,
@@ -18,6 +20,7 @@ import {
   type EvalContext,
 } from "./evaluate.js";
 import { resolveOptions, DEFAULTS, type ResolvedOptions } from "./options.js";
+import { baseHeldOff } from "./leakage.js";
 import { chooseResistorRating, formatRating } from "./ratings.js";
 import { chooseFree, coarseStep, lowerBoundWatts, maxRcOhms, searchCell, type Closest, type SearchSpec } from "./search.js";
 import { buildSituations, type Situation } from "./situations.js";
@@ -83,7 +86,7 @@ function uniqueDefs(situations: readonly Situation[]): CellDefinition[] {
   const out: CellDefinition[] = [];
   for (const s of situations) if (!out.includes(s.def)) out.push(s.def);
   // Basic diode-AND kinds first (others' loads), then diode-OR, then variants.
-  const rank = (d: CellDefinition): number => (d.variant !== "basic" ? 2 : d.inputKind === "and" ? 0 : 1);
+  const rank = (d: CellDefinition): number => (isFanoutVariant(d) ? 2 : d.inputKind === "and" ? 0 : 1);
   return out.sort((a, b) => rank(a) - rank(b) || CELLS.indexOf(a) - CELLS.indexOf(b));
 }
 
@@ -97,6 +100,61 @@ interface UniformEnv {
   grid: number[];
   gateDelayMaxSeconds?: number;
   disabled?: ReadonlySet<number>;
+  /** False: size without the wired-AND terms (to tell whether they block; see explainFailure). */
+  wired?: boolean;
+  /** Fast variants in place of the basic cells, and the speed-up capacitor (absent: basic). */
+  plan?: VariantPlan;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Fast variants (speed-up capacitor, Schottky clamp, both: src/cells/fast-kit). A plan says which
+// variant replaces each base cell everywhere in the design, and the capacitor's one value (one
+// value for the whole design: fewest distinct parts).
+
+interface VariantPlan {
+  /** Base cell id → the cell used in its place. */
+  byBase: Map<string, CellDefinition>;
+  capFarads?: number;
+  capTolerance: number;
+  /** Parts of the whole design under the plan (before any high-fan-out promotion). */
+  parts: number;
+}
+
+/** The cell used in place of `def` under the plan of `u`. */
+function planned(u: UniformEnv, def: CellDefinition): CellDefinition {
+  return u.plan?.byBase.get(def.id) ?? def;
+}
+
+/** The high-fan-out family: sized after the primary cells, given their shared R_C. */
+function isFanoutVariant(d: CellDefinition): boolean {
+  return d.variant.startsWith("high-fanout");
+}
+
+/** Values a plan fixes for a cell kind: the speed-up capacitor and its tolerance. */
+function capFixed(u: UniformEnv, d: CellDefinition): CellValues {
+  if (!d.speedUp?.capacitorKey || u.plan?.capFarads === undefined) return {};
+  return { [CAPACITOR_KEY]: u.plan.capFarads, [CAPACITOR_TOLERANCE_KEY]: u.plan.capTolerance };
+}
+
+/** What a plan's cells change for their neighbours: a clamped driver's higher low level (every
+ *  driver is taken as possibly clamped: conservative), and the loads' speed-up capacitors. */
+function applyPlanHooks(ctx: EvalContext, u: UniformEnv): void {
+  const plan = u.plan;
+  if (!plan) return;
+  const used = [...plan.byBase.values()];
+  if (used.some((d) => d.speedUp?.clamp)) ctx.driverLowVolts = clampedLowVolts;
+  const c = plan.capFarads;
+  if (c === undefined || !used.some((d) => d.speedUp?.capacitorKey)) return;
+  const high = c * (1 + plan.capTolerance);
+  const orCaps = used.some((d) => d.inputKind === "or" && d.speedUp?.capacitorKey);
+  ctx.loadSpeedUp = (s, env) => {
+    let q = 0;
+    for (const [id, n] of s.andLoadsByType) {
+      const d = cellById(id);
+      if (d?.speedUp?.capacitorKey) q += n * high * Math.max(0, inputNodeOnVolts(d, env) - env.dev.vCESatVolts - env.dev.vDiodeOnVolts);
+    }
+    return { chargeCoulombs: q, farads: orCaps ? s.orLoads * high : 0 };
+  };
 }
 
 function makeUniformCtx(
@@ -109,7 +167,7 @@ function makeUniformCtx(
   const tol = u.o.resistorTolerance;
   const basicOf = (id: string): CellDefinition | undefined => {
     const d = cellById(id);
-    return d ? basicCellFor(d.fn) : undefined;
+    return d ? planned(u, basicCellFor(d.fn)) : undefined;
   };
   const loadAmps = (id: string, selfNow: { def: CellDefinition; values: CellValues }, t: number, env: CellEnv): number => {
     if (id === selfNow.def.id) return selfNow.def.inputLowAmpsWorst(selfNow.values, t, env);
@@ -143,8 +201,10 @@ function makeUniformCtx(
   };
   if (u.gateDelayMaxSeconds !== undefined) ctx.gateDelayMaxSeconds = u.gateDelayMaxSeconds;
   if (u.disabled) ctx.disabled = u.disabled;
-  if (opts.cap && self.variant !== "basic") {
-    const b = basicCellFor(self.fn);
+  if (opts.sharedRcOhms !== undefined) ctx.wiredRcOhms = opts.sharedRcOhms;
+  applyPlanHooks(ctx, u);
+  if (opts.cap && self !== planned(u, basicCellFor(self.fn))) {
+    const b = planned(u, basicCellFor(self.fn));
     const bv = chosen.get(b.id);
     if (bv) ctx.inputCurrentCap = (c) => b.inputLowAmpsWorst(bv, tol, u.corners[c]!.env);
   }
@@ -152,12 +212,12 @@ function makeUniformCtx(
 }
 
 function sizeUniform(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv): Outcome {
-  const { situations, byCell } = buildSituations(netlist, defs, { group: true, ...(u.o.fanoutOverride !== undefined ? { fanoutOverride: u.o.fanoutOverride } : {}) });
+  const { situations, byCell } = buildSituations(netlist, defs, { group: true, ...(u.o.fanoutOverride !== undefined ? { fanoutOverride: u.o.fanoutOverride } : {}), ...(u.wired === false ? { wired: false } : {}) });
   const types = uniqueDefs(situations);
   const sitsOf = new Map<string, Situation[]>();
   for (const s of situations) sitsOf.set(s.def.id, [...(sitsOf.get(s.def.id) ?? []), s]);
-  const stageA = types.filter((d) => d.variant === "basic");
-  const stageB = types.filter((d) => d.variant !== "basic");
+  const stageA = types.filter((d) => !isFanoutVariant(d));
+  const stageB = types.filter((d) => isFanoutVariant(d));
   const grid = u.grid;
   let provisional = new Map<string, CellValues>();
 
@@ -173,7 +233,7 @@ function sizeUniform(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv
       let power = 0;
       for (const d of stageA) {
         const ctx = makeUniformCtx(u, d, chosen, provisional, { sharedRcOhms: rc! });
-        const r = searchCell({ def: d, situations: sitsOf.get(d.id)!, ctx, grid, fixed: { rcOhms: rc! } });
+        const r = searchCell({ def: d, situations: sitsOf.get(d.id)!, ctx, grid, fixed: { rcOhms: rc!, ...capFixed(u, d) } });
         if (!r.values) {
           const prev = closestByType.get(d.id);
           if (r.closest && (!prev || r.closest.worstMargin > prev.worstMargin)) closestByType.set(d.id, r.closest);
@@ -237,7 +297,7 @@ function sizeUniform(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv
       let rcShared = Number.isNaN(cand.rc) ? undefined : cand.rc;
       for (const d of stageB) {
         const ctx = makeUniformCtx(u, d, chosen, provisional, { cap: true, ...(rcShared !== undefined ? { sharedRcOhms: rcShared } : {}) });
-        const fixed: CellValues = rcShared !== undefined ? { rcOhms: rcShared } : {};
+        const fixed: CellValues = { ...(rcShared !== undefined ? { rcOhms: rcShared } : {}), ...capFixed(u, d) };
         const r = searchCell({ def: d, situations: sitsOf.get(d.id)!, ctx, grid, fixed });
         if (!r.values) {
           ok = false;
@@ -353,6 +413,8 @@ function sizePerGate(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv
     if (rEqStar !== undefined) ctx.orDriveCapOhms = rEqStar;
     if (u.gateDelayMaxSeconds !== undefined) ctx.gateDelayMaxSeconds = u.gateDelayMaxSeconds;
     if (u.disabled) ctx.disabled = u.disabled;
+    if (uniform.sharedRcOhms !== undefined) ctx.wiredRcOhms = uniform.sharedRcOhms;
+    applyPlanHooks(ctx, u);
     return ctx;
   };
   // Nominal load for the report's nominal point: the heaviest diode-AND input at nominal values.
@@ -364,13 +426,16 @@ function sizePerGate(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv
     }
     return x;
   };
-  const { situations, byCell } = buildSituations(netlist, defs, { group: true, ...(u.o.fanoutOverride !== undefined ? { fanoutOverride: u.o.fanoutOverride } : {}) });
+  const { situations, byCell } = buildSituations(netlist, defs, { group: true, ...(u.o.fanoutOverride !== undefined ? { fanoutOverride: u.o.fanoutOverride } : {}), ...(u.wired === false ? { wired: false } : {}) });
   const valuesBySituation: CellValues[] = [];
   const memo = new Map<string, CellValues>();
   for (const s of situations) {
     // Fan-in and load pins change only capacitances: they matter only under a delay budget.
     const timed = u.gateDelayMaxSeconds !== undefined;
-    const key = [s.def.id, s.andLoads, s.orLoads, s.inputsSeeOrClamp ? 1 : 0, s.orDriveLoads, timed ? s.loadPins : "", timed ? s.fanin : ""].join("|");
+    // Every cell on a wired-AND net keeps the uniform R_C: the net has one collector resistor,
+    // and each of its transistors is sized against it (R_P, R_B chosen per gate).
+    const onWiredNet = !s.ownsPullUp || s.tiedCollectors > 0;
+    const key = [s.def.id, s.andLoads, s.orLoads, s.inputsSeeOrClamp ? 1 : 0, s.orDriveLoads, timed ? s.loadPins : "", timed ? s.fanin : "", onWiredNet ? `w${s.tiedCollectors}` : "", s.inputWiredCollectors, s.inputWiredAndLoads, s.ownsPullUp ? "" : "t"].join("|");
     const hit = memo.get(key);
     if (hit) {
       valuesBySituation.push(hit);
@@ -378,7 +443,8 @@ function sizePerGate(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv
     }
     const ctx = makeCtx();
     const ui = uSits.findIndex((x) => x.def.id === s.def.id);
-    const spec: SearchSpec = { def: s.def, situations: [s], ctx, grid: u.grid, fixed: {}, ...(ui >= 0 ? { initial: uValues[ui]! } : {}) };
+    const fixed: CellValues = { ...(onWiredNet && uniform.sharedRcOhms !== undefined ? { rcOhms: uniform.sharedRcOhms } : {}), ...capFixed(u, s.def) };
+    const spec: SearchSpec = { def: s.def, situations: [s], ctx, grid: u.grid, fixed, ...(ui >= 0 ? { initial: uValues[ui]! } : {}) };
     const r = searchCell(spec);
     let values: CellValues;
     if (r.values && r.freeInterval) values = chooseFree(spec, r.values, r.freeInterval).values;
@@ -415,7 +481,13 @@ function sizeForced(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv,
     ctx.heaviestLoadAmps = heaviest;
     return ctx;
   };
-  return { valuesBySituation: situations.map((s) => chosen.get(s.def.id)!), situations, byCell, ctxFor, heaviestLoadAmps: heaviest };
+  // A tied cell's pull-up is its net driver's R_C (wired-AND): analysed with that value.
+  const valuesOf = (s: Situation): CellValues => {
+    const own = chosen.get(s.def.id)!;
+    const pull = s.pullUpCellId !== undefined ? chosen.get(s.pullUpCellId)?.rcOhms : undefined;
+    return pull !== undefined ? { ...own, rcOhms: pull } : own;
+  };
+  return { valuesBySituation: situations.map(valuesOf), situations, byCell, ctxFor, heaviestLoadAmps: heaviest };
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -511,7 +583,7 @@ function criticalPath(netlist: CellNetlist, delays: { fall: number; rise: number
   const first = netlist.cells[cells[0]!]!;
   if (first.inputs.length > 0) nets.push(netlist.nets[first.inputs[0]!]!.name);
   for (const x of cells) nets.push(netlist.nets[netlist.cells[x]!.output]!.name);
-  const out: PathTiming = { cells, nets, delaySeconds: worst, depth: Math.max(...depth) };
+  const out: PathTiming = { cells, nets, delaySeconds: worst, depth: depth.reduce((a, b) => Math.max(a, b), -Infinity) };
   if (budget !== undefined) out.budgetSeconds = budget;
   return out;
 }
@@ -557,7 +629,9 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
     const s = sized.situations[si]!;
     const values = sized.valuesBySituation[si]!;
     const vkey = s.def.parameters.map((p) => `${p.key}=${values[p.key]}`).join(",");
-    const shape = `${s.def.keyPrefix}${s.fanin}`;
+    // A cell tied onto another's net (wired-AND) is the open-collector form of its kind: the same
+    // parts without R_C, a subcircuit of its own.
+    const shape = `${s.def.keyPrefix}${s.fanin}${s.ownsPullUp ? "" : "_oc"}`;
     const k = `${shape}|${vkey}`;
     let ti = typeIndex.get(k);
     if (ti === undefined) {
@@ -567,7 +641,7 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
       const key = sets.length === 1 ? shape : `${shape}_${sets.length}`;
       ti = cellTypes.length;
       typeIndex.set(k, ti);
-      const topo = s.def.topology(s.fanin);
+      const topo = topologyOf(s);
       cellTypes.push({
         key,
         cellId: s.def.id,
@@ -578,12 +652,13 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
         elements: topo.components.map((c) => {
           const e: SizedCellType["elements"][number] = { name: c.name, kind: c.kind, nodes: c.nodes };
           if (c.valueKey) e.value = values[c.valueKey]!;
-          if (c.model) e.model = c.model === "diode" ? o.devices.diode.name : o.devices.npn.name;
+          if (c.model) e.model = c.model === "diode" ? o.devices.diode.name : c.model === "schottky" ? (o.devices.schottky ?? DEFAULT_SCHOTTKY).card.name : o.devices.npn.name;
           return e;
         }),
         values: { ...values },
         analysis: analyses[si]!,
         cells: [],
+        ...(s.ownsPullUp ? {} : { openCollector: true }),
       });
       typeSits.push([]);
     }
@@ -602,7 +677,7 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
     const si = sized.byCell[cell.index]!;
     const s = sized.situations[si]!;
     const values = sized.valuesBySituation[si]!;
-    const topo = s.def.topology(s.fanin);
+    const topo = topologyOf(s);
     const designators: Record<string, string> = {};
     const st = stressesBySit[si]!;
     for (const comp of topo.components) {
@@ -635,9 +710,30 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
           }
         }
         components.push(c);
+      } else if (comp.kind === "C") {
+        // Speed-up capacitor (fast variants): ceramic, the value the plan chose.
+        const farads = values[comp.valueKey ?? CAPACITOR_KEY] ?? 0;
+        const ctol = values[CAPACITOR_TOLERANCE_KEY] ?? o.capacitorTolerance;
+        const vMax = Math.max(stress?.voltageVolts ?? 0, o.supplyVolts * (1 + o.supplyTolerance));
+        const rated = capacitorVoltageRating(vMax);
+        const c: Component = {
+          designator: des,
+          kind: "C",
+          value: farads,
+          valueText: `${formatFarads(farads)}F`,
+          tolerance: ctol,
+          description: `ceramic capacitor ${formatFarads(farads)}F ${formatPercent(ctol)}, ${rated !== undefined ? `${rated} V` : `over ${CAPACITOR_VOLTAGE_RATINGS[CAPACITOR_VOLTAGE_RATINGS.length - 1]} V`}, C0G/NP0 (speed-up)`,
+          instance: cell.index,
+          role: comp.name,
+        };
+        if (rated !== undefined) c.voltageRatingVolts = rated;
+        components.push(c);
       } else {
         const isDiode = comp.kind === "D";
-        const card = isDiode ? o.devices.diode : o.devices.npn;
+        const sch = comp.model === "schottky" ? (o.devices.schottky ?? DEFAULT_SCHOTTKY) : undefined;
+        const card = sch ? sch.card : isDiode ? o.devices.diode : o.devices.npn;
+        const dFwdMax = sch ? sch.iForwardMaxAmps : o.devices.diodeForwardMaxAmps;
+        const dRevMax = sch ? sch.vReverseMaxVolts : o.devices.diodeReverseMaxVolts;
         const c: Component = {
           designator: des,
           kind: comp.kind,
@@ -655,8 +751,8 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
           const w = `${s.def.id}/${comp.name}`;
           const problems: string[] = [];
           if (isDiode) {
-            if ((stress.currentAmps ?? 0) > o.devices.diodeForwardMaxAmps) problems.push(`forward current ${fmt((stress.currentAmps ?? 0) * 1e3)} mA > ${fmt(o.devices.diodeForwardMaxAmps * 1e3)} mA`);
-            if ((stress.voltageVolts ?? 0) > o.devices.diodeReverseMaxVolts) problems.push(`reverse voltage ${fmt(stress.voltageVolts ?? 0)} V > ${fmt(o.devices.diodeReverseMaxVolts)} V`);
+            if ((stress.currentAmps ?? 0) > dFwdMax) problems.push(`forward current ${fmt((stress.currentAmps ?? 0) * 1e3)} mA > ${fmt(dFwdMax * 1e3)} mA`);
+            if ((stress.voltageVolts ?? 0) > dRevMax) problems.push(`reverse voltage ${fmt(stress.voltageVolts ?? 0)} V > ${fmt(dRevMax)} V`);
           } else {
             if ((stress.currentAmps ?? 0) > o.devices.npnIcMaxAmps) problems.push(`collector current ${fmt((stress.currentAmps ?? 0) * 1e3)} mA > ${fmt(o.devices.npnIcMaxAmps * 1e3)} mA`);
             if ((stress.voltageVolts ?? 0) > o.devices.npnVceMaxVolts) problems.push(`collector-emitter voltage ${fmt(stress.voltageVolts ?? 0)} V > ${fmt(o.devices.npnVceMaxVolts)} V`);
@@ -694,6 +790,27 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
     notes.push(`The longest path takes ${fmt(path.delaySeconds * 1e9)} ns against a budget of ${fmt(o.pathDelayMaxSeconds * 1e9)} ns.`);
   }
 
+  const wiredNets = netlist.nets.filter((n) => n.tiedCells?.length);
+  // Every transistor on a wired net must stay off against its own collector leakage when hot
+  // (the leakage figures assume it: src/electrical/leakage.ts).
+  const hot = u.corners.reduce((a, c) => (c.env.dev.tempC > a.env.dev.tempC ? c : a), u.corners[0]!);
+  const leakyTypes = new Set<string>();
+  for (const n of wiredNets)
+    for (const c of [n.driver.kind === "cell" ? n.driver.cell : -1, ...n.tiedCells!]) {
+      const t = cellTypes[typeOfCell[c] ?? -1];
+      const rb = t?.values.rbOhms;
+      if (!t || rb === undefined || leakyTypes.has(t.key)) continue;
+      if (!baseHeldOff(o.devices.npn.params, hot.env.dev.tempC, rb * (1 + tol), hot.env.dev.vBECutInVolts)) {
+        leakyTypes.add(t.key);
+        diagnostics.push(diag("GW5006", `${t.key} on a wired-AND net: its collector leakage through R_B ${formatOhms(rb)} lifts the base to the cut-in at ${hot.env.dev.tempC} °C, so the net's high level is not assured`, undefined, { hint: "a smaller base resistor (a lower resistor range), a transistor with less leakage, or build without --wired-and" }));
+      }
+    }
+  if (wiredNets.length) {
+    const tied = wiredNets.reduce((acc, n) => acc + n.tiedCells!.length, 0);
+    notes.push(
+      `Wired-AND: ${wiredNets.length} net${wiredNets.length === 1 ? " carries" : "s carry"} ${tied} tied open-collector output${tied === 1 ? "" : "s"} with one collector resistor each (in the net's driver cell); every transistor on such a net is sized to sink that resistor's current and all the net's loads alone, and the high level, the collector leakage and the rise time count every tied collector.`,
+    );
+  }
   for (const t of cellTypes) {
     const b = t.analysis.constraints.find((c) => c.id === t.analysis.binding);
     if (b) notes.push(`${t.key}: binding constraint ${b.label}, margin ${fmt(b.margin * 100)} % at ${b.corner}.`);
@@ -711,7 +828,7 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
   const design: SizedDesign = {
     netlist,
     parameters: o.parameters,
-    models: { diode: o.devices.diode, npn: o.devices.npn },
+    models: { diode: o.devices.diode, npn: o.devices.npn, ...(components.some((c) => c.kind === "D" && c.role === "DSC") ? { schottky: (o.devices.schottky ?? DEFAULT_SCHOTTKY).card } : {}) },
     cellTypes,
     instances,
     components,
@@ -735,6 +852,12 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
   };
   if (path) design.criticalPath = path;
   return design;
+}
+
+/** The parts a cell is built from: its kind's topology, without R_C for a tied cell. */
+function topologyOf(s: Situation): CellTopology {
+  const t = s.def.topology(s.fanin);
+  return s.ownsPullUp ? t : openCollectorTopology(t);
 }
 
 function maxRc(types: SizedCellType[]): number {
@@ -765,16 +888,26 @@ interface Attempt {
   defs: CellDefinition[];
   triedVariant: boolean;
   variantNote?: string;
+  /** Fast variants: the plan used, whether plans were tried, and the note explaining the choice. */
+  plan?: VariantPlan;
+  triedFast?: boolean;
+  fastNote?: string;
+  /** The per-gate delay the fast plan was sized to (the budget less FAST_DELAY_GUARD). */
+  gateDelayMaxSeconds?: number;
 }
+
+/** Share of the delay budget kept back when sizing the fast variants (see attemptFast). */
+const FAST_DELAY_GUARD = 0.2;
 
 /** Uniform sizing with the basic cells; when that fails, the fewest heaviest-loaded NAND cells
  *  moved to the high-fan-out variant that make it fit. */
 function attemptAll(netlist: CellNetlist, u: UniformEnv): Attempt {
   const o = u.o;
-  const basic = netlist.cells.map((c) => basicCellFor(c.fn));
+  const basic = netlist.cells.map((c) => planned(u, basicCellFor(c.fn)));
   const outcome = sizeUniform(netlist, basic, u);
   if (outcome.ok || o.variants !== "auto") return { outcome, defs: basic, triedVariant: false };
-  const variant = variantsFor("nand")[0];
+  const hifan = variantsFor("nand").find((d) => d.variant === "high-fanout");
+  const variant = hifan ? planned(u, hifan) : undefined;
   const loading = buildSituations(netlist, basic, { group: false, ...(o.fanoutOverride !== undefined ? { fanoutOverride: o.fanoutOverride } : {}) });
   const fanoutOf = (cell: number): number => loading.situations[loading.byCell[cell]!]!.andLoads;
   const nandCells = netlist.cells.filter((c) => c.fn === "nand").map((c) => c.index);
@@ -790,7 +923,7 @@ function attemptAll(netlist: CellNetlist, u: UniformEnv): Attempt {
   // Threshold t: cells with fan-out above levels[t] get the variant; t = −1 moves them all.
   const defsAt = (t: number): CellDefinition[] => {
     const th = t < 0 ? -Infinity : levels[t]!;
-    return netlist.cells.map((c) => (c.fn === "nand" && fanoutOf(c.index) > th ? variant : basicCellFor(c.fn)));
+    return netlist.cells.map((c) => (c.fn === "nand" && fanoutOf(c.index) > th ? variant : planned(u, basicCellFor(c.fn))));
   };
   // Largest threshold that fits (fewest cells moved); levels.length − 1 is the all-basic case,
   // which failed. Feasibility only grows as the threshold falls, so bisect, trying the largest
@@ -825,16 +958,183 @@ function attemptAll(netlist: CellNetlist, u: UniformEnv): Attempt {
   if (!found) return { outcome, defs: basic, triedVariant: true };
   const defs = defsAt(found.t);
   const promoted = nandCells.filter((c) => defs[c] === variant);
-  const smallest = Math.min(...promoted.map(fanoutOf));
+  const smallest = promoted.reduce((m, c) => Math.min(m, fanoutOf(c)), Infinity);
   const note =
     `the basic NAND cannot drive a fan-out of ${smallest} at every corner; ` +
     `${promoted.length} cell${promoted.length === 1 ? " with that fan-out or more uses" : "s with that fan-out or more use"} the high-fan-out variant (${variant.source})`;
   return { outcome: found.out, defs, triedVariant: true, variantNote: note };
 }
 
+/** Why an infeasible request fails (explainBlockers), and whether the wired-AND nets are the
+ *  reason: when the same cells fit once the tied collectors' leakage and capacitance are left
+ *  out, the diagnostic says so and names building without --wired-and as what relaxes it. */
+function explainFailure(netlist: CellNetlist, u: UniformEnv, first: Attempt): Diagnostic {
+  // After fast variants were tried, explain the failure of the most capable plan.
+  if (first.plan && !u.plan) u = { ...u, plan: first.plan };
+  if (first.gateDelayMaxSeconds !== undefined) u = { ...u, gateDelayMaxSeconds: first.gateDelayMaxSeconds };
+  const d = explainBlockers(netlist, u, first);
+  const wiredNets = netlist.nets.filter((n) => n.tiedCells?.length);
+  if (wiredNets.length === 0 || u.wired === false) return d;
+  const coarse: UniformEnv = { ...u, grid: u.grid.filter((_, k) => k % 2 === 0), wired: false };
+  if (!attemptAll(netlist, coarse).outcome.ok) return d;
+  const tied = wiredNets.reduce((acc, n) => acc + n.tiedCells!.length, 0);
+  const names = wiredNets.slice(0, 4).map((n) => `'${n.name}'`).join(", ") + (wiredNets.length > 4 ? ", ..." : "");
+  const message = `${d.message}; the wired-AND nets make it infeasible: ${tied} tied open-collector output${tied === 1 ? "" : "s"} on ${wiredNets.length} net${wiredNets.length === 1 ? "" : "s"} (${names}) add their collector capacitance and leakage, and without them the same cells would fit`;
+  const hint = `build without --wired-and (every output then has its own collector resistor), or ${d.hint?.replace(/^what would relax it: /, "") ?? "a looser requirement"}`;
+  return { ...d, message, hint: `what would relax it: ${hint}` };
+}
+
+/** The plans of fast variants for a netlist, cheapest in parts first (the all-basic plan left
+ *  out). Each base cell present (NAND, NOR) takes its basic form or one of its fast variants;
+ *  the high-fan-out NAND follows the NAND's choice where a matching variant exists. */
+function fastPlans(netlist: CellNetlist, o: ResolvedOptions): VariantPlan[] {
+  const bases = [...new Set(netlist.cells.map((c) => basicCellFor(c.fn)))];
+  const hifan = variantsFor("nand").find((d) => d.variant === "high-fanout");
+  const hifanFast = hifan ? fastVariantsOf(hifan.id) : [];
+  let combos: Map<string, CellDefinition>[] = [new Map()];
+  for (const b of bases) {
+    const next: Map<string, CellDefinition>[] = [];
+    for (const m of combos) for (const v of [b, ...fastVariantsOf(b.id)]) next.push(new Map(m).set(b.id, v));
+    combos = next;
+  }
+  const plans: VariantPlan[] = [];
+  for (const m of combos) {
+    if ([...m.entries()].every(([id, d]) => d.id === id)) continue;
+    const nand = m.get("nand");
+    if (hifan && nand?.speedUp) {
+      const match = hifanFast.find((h) => h.speedUp!.clamp === nand.speedUp!.clamp && !!h.speedUp!.capacitorKey === !!nand.speedUp!.capacitorKey);
+      if (match) m.set(hifan.id, match);
+    }
+    let parts = 0;
+    for (const c of netlist.cells) parts += (m.get(basicCellFor(c.fn).id) ?? basicCellFor(c.fn)).topology(Math.max(1, c.inputs.length)).components.length;
+    const withCap = [...m.values()].some((d) => d.speedUp?.capacitorKey);
+    const plan: VariantPlan = { byBase: m, capTolerance: o.capacitorTolerance, parts };
+    if (withCap) plan.capFarads = o.capacitorMaxFarads;
+    plans.push(plan);
+  }
+  return plans.sort((a, b) => a.parts - b.parts);
+}
+
+function planLabel(plan: VariantPlan): string {
+  const names = [...plan.byBase.entries()].filter(([id, d]) => d.id !== id && !isFanoutVariant(d)).map(([, d]) => d.title);
+  return names.join(" and ");
+}
+
+/** Σ cells × worst-case static power of a sized design (the tie-break between plans). */
+function sizedPowerWatts(sized: Sized): number {
+  let p = 0;
+  sized.situations.forEach((s, i) => {
+    const r = evaluateSituation(s, sized.valuesBySituation[i]!, sized.ctxFor(s), new Float64Array(NC).fill(Infinity), false);
+    p += r.worstWatts * s.cells.length;
+  });
+  return p;
+}
+
+/** Under a speed budget the basic cells miss: the cheapest plan of fast variants that meets it at
+ *  every corner (parts first, then worst-case power), with the smallest allowed speed-up
+ *  capacitor that does (least load on the drivers, least switching energy). Feasibility is tried
+ *  on every other standard value first, then confirmed on the full series. When no plan fits,
+ *  the attempt of the most capable plan (both techniques, the largest capacitor) is returned for
+ *  the failure message. */
+function attemptFast(netlist: CellNetlist, u0: UniformEnv): Attempt {
+  if (u0.plan) return attemptAll(netlist, u0);
+  const first = attemptAll(netlist, u0);
+  const o = u0.o;
+  if (first.outcome.ok || o.variants !== "auto" || u0.gateDelayMaxSeconds === undefined) return first;
+  // The fast cells' delay estimates run up to about a fifth low against ngspice where they are
+  // smallest (test/electrical/fast.ngspice.test.ts; 0.85 for the clamped NAND at fan-out 8):
+  // they are held to the budget less FAST_DELAY_GUARD.
+  const u: UniformEnv = { ...u0, gateDelayMaxSeconds: u0.gateDelayMaxSeconds * (1 - FAST_DELAY_GUARD) };
+  const coarse: UniformEnv = { ...u, grid: u.grid.filter((_, k) => k % 2 === 0) };
+  // The fast variants change only the switching: if the basic cells fail even without the delay
+  // constraints, none of them can help.
+  const delays = ["delay-fall", "delay-rise"].map((id) => CONSTRAINTS.findIndex((c) => c.id === id));
+  if (!attemptAll(netlist, { ...coarse, disabled: new Set([...(u.disabled ?? []), ...delays]) }).outcome.ok) return first;
+  const caps = valuesInRange(o.capacitorSeries, o.capacitorMinFarads, o.capacitorMaxFarads);
+  const plans = fastPlans(netlist, o);
+  if (plans.length === 0) return first;
+  const fits = (plan: VariantPlan, grid: UniformEnv): Attempt => {
+    const a = attemptAll(netlist, { ...grid, plan });
+    a.plan = plan;
+    if (!a.outcome.ok) {
+      const m = a.outcome.failure.closest?.worstMargin ?? -Infinity;
+      if (!closest || m > closest.margin) closest = { plan, margin: m };
+    }
+    return a;
+  };
+  let closest: { plan: VariantPlan; margin: number } | undefined;
+  const found: { plan: VariantPlan; attempt: Attempt; power: number }[] = [];
+  const missed: VariantPlan[] = [];
+  for (const plan of plans) {
+    if (found.length > 0 && plan.parts > found[0]!.plan.parts) break;
+    let p = plan;
+    if (plan.capFarads !== undefined && caps.length > 0) {
+      // A larger capacitor removes more stored charge but loads the drivers more (diode-AND
+      // loads hand their charge to the driver): not monotonic. Scan every other value upward,
+      // stop at the first that fits, then try the value just below it.
+      let at = -1;
+      for (let i = 0; i < caps.length && at < 0; i += 2) if (fits({ ...plan, capFarads: caps[i]! }, coarse).outcome.ok) at = i;
+      if (at < 0 && caps.length % 2 === 0 && fits({ ...plan, capFarads: caps[caps.length - 1]! }, coarse).outcome.ok) at = caps.length - 1;
+      if (at < 0) {
+        missed.push(plan);
+        continue;
+      }
+      if (at > 0 && fits({ ...plan, capFarads: caps[at - 1]! }, coarse).outcome.ok) at--;
+      p = { ...plan, capFarads: caps[at]! };
+    } else if (!fits(plan, coarse).outcome.ok) {
+      missed.push(plan);
+      continue;
+    }
+    // Confirm on the full series (it can only do better than every other value).
+    const a = fits(p, u);
+    if (!a.outcome.ok) {
+      missed.push(plan);
+      continue;
+    }
+    found.push({ plan: p, attempt: a, power: sizedPowerWatts(a.outcome.sized) });
+  }
+  if (found.length === 0) {
+    // Explain with the plan (and capacitor) that came closest (at the budget as given).
+    const best = closest?.plan ?? plans[plans.length - 1]!;
+    const a = fits(best, u);
+    if (!a.outcome.ok) {
+      a.triedFast = true;
+      a.gateDelayMaxSeconds = u.gateDelayMaxSeconds!;
+      return a;
+    }
+    // The full series found what every other value did not.
+    found.push({ plan: best, attempt: a, power: sizedPowerWatts(a.outcome.sized) });
+  }
+  found.sort((a, b) => a.power - b.power);
+  const win = found[0]!;
+  const budget = fmt(u0.gateDelayMaxSeconds * 1e9);
+  const extra = win.plan.parts - partsOfBasic(netlist);
+  let note = `the basic cells miss the speed budget of ${budget} ns per gate; ${planLabel(win.plan)} meet${planLabel(win.plan).includes(" and DTL") ? "" : "s"} it at every corner (+${extra} part${extra === 1 ? "" : "s"}`;
+  if (win.plan.capFarads !== undefined) note += `, C_SU ${fmtFarads(win.plan.capFarads)} ${o.capacitorSeries} ±${fmt(o.capacitorTolerance * 100)} %, the smallest allowed value that does`;
+  note += ")";
+  const cheaper = missed.filter((m) => m.parts <= win.plan.parts).map(planLabel);
+  if (cheaper.length) note += `; ${cheaper.join("; ")} ${cheaper.length === 1 ? "does" : "do"} not`;
+  if (found.length > 1) note += `; chosen over ${found.slice(1).map((f) => planLabel(f.plan)).join(", ")} (same parts count) for less worst-case power`;
+  note += `; chosen by parts count first, then worst-case power; their estimated delays are held to ${fmt(u.gateDelayMaxSeconds! * 1e9)} ns, ${fmt(FAST_DELAY_GUARD * 100)} % under the budget, for the estimate's accuracy`;
+  win.attempt.fastNote = note;
+  win.attempt.gateDelayMaxSeconds = u.gateDelayMaxSeconds!;
+  win.attempt.triedFast = true;
+  return win.attempt;
+}
+
+function partsOfBasic(netlist: CellNetlist): number {
+  let parts = 0;
+  for (const c of netlist.cells) parts += basicCellFor(c.fn).topology(Math.max(1, c.inputs.length)).components.length;
+  return parts;
+}
+
+function fmtFarads(f: number): string {
+  return `${formatFarads(f)}F`;
+}
+
 /** Which constraint blocks an infeasible request: the ones whose removal alone lets the search
  *  succeed, with how far the relaxed design misses them. */
-function explainFailure(netlist: CellNetlist, u: UniformEnv, first: Attempt): Diagnostic {
+function explainBlockers(netlist: CellNetlist, u: UniformEnv, first: Attempt): Diagnostic {
   const o = u.o;
   if (first.outcome.ok) throw new Error("explainFailure on a success");
   const f = first.outcome.failure;
@@ -857,8 +1157,19 @@ function explainFailure(netlist: CellNetlist, u: UniformEnv, first: Attempt): Di
     if (!relaxed.outcome.ok) continue;
     blockers.push({ id: c.id, i, reached: worstValue(relaxed.outcome.sized, i) });
   }
+  // Both delays failing together (a budget far below any design): relax them as one.
+  const iFall = CONSTRAINTS.findIndex((c) => c.id === "delay-fall");
+  const iRise = CONSTRAINTS.findIndex((c) => c.id === "delay-rise");
+  if (blockers.length === 0 && u.gateDelayMaxSeconds !== undefined) {
+    const relaxed = attemptAll(netlist, { ...coarse, disabled: new Set([...(u.disabled ?? []), iFall, iRise]) });
+    if (relaxed.outcome.ok) {
+      const fall = worstValue(relaxed.outcome.sized, iFall);
+      const rise = worstValue(relaxed.outcome.sized, iRise);
+      blockers.push(rise >= fall ? { id: "delay-rise", i: iRise, reached: rise } : { id: "delay-fall", i: iFall, reached: fall });
+    }
+  }
   const loading = buildSituations(netlist, first.defs, { group: true, ...(o.fanoutOverride !== undefined ? { fanoutOverride: o.fanoutOverride } : {}) });
-  const maxFan = Math.max(0, ...loading.situations.map((s) => s.andLoads + s.orLoads));
+  const maxFan = loading.situations.reduce((m, s) => Math.max(m, s.andLoads + s.orLoads), 0);
   const where = `, largest fan-out ${maxFan}`;
   if (blockers.length > 0) {
     const b0 = blockers[0]!;
@@ -886,6 +1197,7 @@ function explainFailure(netlist: CellNetlist, u: UniformEnv, first: Attempt): Di
     if (alt.length) msg += ` (relaxing ${alt.length === 1 ? "" : "any one of "}${alt.join(", ")} instead would also let it fit)`;
     let hint = `what would relax it: ${RELAX[b0.id] ?? "a looser requirement"}`;
     if (first.triedVariant && b0.id === "saturation") hint += "; the high-fan-out variant was tried and does not fit either";
+    if (first.triedFast && (b0.id === "delay-fall" || b0.id === "delay-rise")) hint += `; the fast variants were tried (speed-up capacitor up to ${fmtFarads(o.capacitorMaxFarads)} and Schottky clamp, their estimates held ${fmt(FAST_DELAY_GUARD * 100)} % under the budget for the estimate's accuracy), and the figure is for the one that came closest`;
     return diag("GW5001", msg, undefined, { hint });
   }
   return failureDiagnostic(f, o, first.triedVariant);
@@ -1017,16 +1329,17 @@ export function sizeDesign(netlist: CellNetlist, options: SizingOptions): StageR
 
   // A path budget becomes a per-gate budget: the largest one whose design still meets the path
   // budget (bisected between budget/depth and the whole budget), since slower gates cost less.
-  const runWith = (uu: UniformEnv): { attempt: Attempt; sized?: Sized } => {
-    const attempt = attemptAll(netlist, uu);
-    if (!attempt.outcome.ok) return { attempt };
+  const runWith = (u0: UniformEnv): { attempt: Attempt; sized?: Sized; u: UniformEnv } => {
+    const attempt = attemptFast(netlist, u0);
+    const uu = attempt.plan && attempt.outcome.ok ? { ...u0, plan: attempt.plan, ...(attempt.gateDelayMaxSeconds !== undefined ? { gateDelayMaxSeconds: attempt.gateDelayMaxSeconds } : {}) } : u0;
+    if (!attempt.outcome.ok) return { attempt, u: uu };
     let sized = attempt.outcome.sized;
     if (o.mode === "per-gate") sized = sizePerGate(netlist, attempt.defs, uu, sized);
-    return { attempt, sized };
+    return { attempt, sized, u: uu };
   };
   let chosen: { attempt: Attempt; sized?: Sized; u: UniformEnv } | undefined;
   if (o.pathDelayMaxSeconds === undefined) {
-    chosen = { ...runWith(u), u };
+    chosen = runWith(u);
   } else {
     const budget = o.pathDelayMaxSeconds;
     const cap = o.gateDelayMaxSeconds ?? Infinity;
@@ -1044,7 +1357,7 @@ export function sizeDesign(netlist: CellNetlist, options: SizingOptions): StageR
       const delay = pathDelayOf(netlist, r.sized);
       fastest = Math.min(fastest, delay);
       if (delay <= budget * (1 + 1e-9)) {
-        if (!chosen || g > (chosen.u.gateDelayMaxSeconds ?? 0)) chosen = { ...r, u: uu };
+        if (!chosen || g > (chosen.u.gateDelayMaxSeconds ?? 0)) chosen = r;
         return "ok";
       }
       return "slow";
@@ -1066,9 +1379,17 @@ export function sizeDesign(netlist: CellNetlist, options: SizingOptions): StageR
       if (lastFailure && !Number.isFinite(fastest)) {
         diagnostics.push(explainFailure(netlist, lastFailure.u, lastFailure.attempt));
       } else {
+        // Wired-AND: would the same cells meet the budget without the tied collectors' capacitance
+        // and leakage (at the loosest and the tightest per-gate budget tried)?
+        const wiredBlocks =
+          netlist.nets.some((n) => n.tiedCells?.length) &&
+          [Math.min(budget, cap), budget / logicDepth(netlist)].some((g) => {
+            const r = runWith({ ...u, wired: false, gateDelayMaxSeconds: g });
+            return r.sized !== undefined && pathDelayOf(netlist, r.sized) <= budget * (1 + 1e-9);
+          });
         diagnostics.push(
-          diag("GW5001", `no ${o.series} values meet the path delay budget of ${fmt(budget * 1e9)} ns: the fastest design found takes ${fmt(fastest * 1e9)} ns along its longest path`, undefined, {
-            hint: `what would relax it: ${RELAX["delay-rise"]}, or fewer logic levels on the longest path`,
+          diag("GW5001", `no ${o.series} values meet the path delay budget of ${fmt(budget * 1e9)} ns: the fastest design found takes ${fmt(fastest * 1e9)} ns along its longest path${wiredBlocks ? "; the wired-AND nets make it infeasible: their tied collectors' capacitance slows the nets, and without it the same cells would meet the budget" : ""}`, undefined, {
+            hint: `what would relax it: ${wiredBlocks ? "build without --wired-and (every output then has its own collector resistor), or " : ""}${RELAX["delay-rise"]}, or fewer logic levels on the longest path`,
           }),
         );
       }
@@ -1084,11 +1405,23 @@ export function sizeDesign(netlist: CellNetlist, options: SizingOptions): StageR
     diagnostics.push(diag("GW5005", first.variantNote));
     notes.push(`High-fan-out variant: ${first.variantNote}.`);
   }
+  if (first.fastNote) {
+    diagnostics.push(diag("GW5010", first.fastNote));
+    notes.push(`Fast variants: ${first.fastNote}.`);
+  }
   const sized = chosen.sized;
   const uFinal = chosen.u;
   if (uFinal.gateDelayMaxSeconds !== undefined && o.pathDelayMaxSeconds !== undefined) {
     notes.push(`Each gate was held to ${fmt(uFinal.gateDelayMaxSeconds * 1e9)} ns so that the longest path meets ${fmt(o.pathDelayMaxSeconds * 1e9)} ns.`);
   }
   const design = assemble(netlist, uFinal, sized, diagnostics, notes, false);
+  if (uFinal.plan?.capFarads !== undefined && design.components.some((c) => c.kind === "C")) {
+    design.parameters = [
+      ...design.parameters,
+      { name: "capacitorSeries", label: `Capacitor series ${o.capacitorSeries}`, value: seriesMantissas(o.capacitorSeries).length, unit: "values/decade", source: options.capacitorSeries !== undefined ? "user" : "default" },
+      { name: "capacitorTolerance", label: "Capacitor tolerance", value: o.capacitorTolerance, unit: "ratio", source: options.capacitorTolerance !== undefined ? "user" : "default" },
+      { name: "speedUpCapacitorFarads", label: "Speed-up capacitor chosen", value: uFinal.plan.capFarads, unit: "F", source: "default" },
+    ];
+  }
   return { value: design, diagnostics };
 }

@@ -9,8 +9,25 @@
 // Output rising (t_PLH): storage time t_s = τ_s·ln((I_B1 + I_B2)/(I_B2 + I_C/β)) with the
 // reverse base current I_B2 = V_BE/R_B, then the collector current decays and R_C charges the
 // output node (load inputs, wiring and the collector junction).
+// Wired-AND: every other transistor tied onto the net adds its collector junction (base held
+// near ground by its R_B, so reverse biased by the output level) to the capacitance R_C must
+// charge on the rise and the one conducting transistor must discharge on the fall.
+// Fast variants (src/cells/fast-kit), capacitor at its low end (slowest):
+// - speed-up capacitor C_SU: on the output's rise the driving node falls by ΔV and C_SU pulls
+//   C_SU·ΔV out of the base at once; it comes off the stored charge first (as a smaller
+//   effective I_B1 in the storage-time formula), then off the active charge τ_F·I_C, and what is
+//   left holds the base below cut-in while the collector swings, taking the Miller charge in
+//   place of R_B (the rise becomes R_C-limited). On the output's fall the charge that recharges
+//   C_SU is delivered into the base (the input node need not charge the level-shift diodes
+//   first); a NOR's capacitors also load the driving input and, for the other inputs, the base.
+// - Schottky clamp: no stored charge (t_s = 0); its junction capacitance adds to the collector
+//   junction's Miller charge on both edges and to the capacitance R_C charges.
+// - a diode-AND load with a speed-up capacitor hands its C_SU·ΔV to its driver when the driver
+//   pulls it low (OutputLoad.speedUpChargeCoulombs), counted in the driver's fall.
 import type { CellDefinition, CellEnv, CellOperatingPoint, CellValues, InputDrive, OutputLoad } from "../cells/types.js";
 import type { CellTiming } from "./types.js";
+import { capacitorOf, speedUpSwingVolts } from "../cells/fast-kit/index.js";
+import { DEFAULT_SCHOTTKY_MODEL } from "./devices.js";
 
 /** Storage time by charge control: t_s = τ_s·ln((I_B1 + I_B2)/(I_B2 + I_C/β)). */
 export function storageTimeSeconds(tauSSeconds: number, iB1Amps: number, iB2Amps: number, iCAmps: number, beta: number): number {
@@ -90,6 +107,8 @@ export interface TimingInputs {
   fanin: number;
   /** Wiring capacitance on the input node (diode-OR inputs are charged by their driver). */
   inputWiringFarads?: number;
+  /** The clamp diode's model parameters (fast cells; default the generic Schottky). */
+  schottky?: Record<string, number>;
 }
 
 /** Time for the output to rise from vFrom to vTo when R_C pulls it toward vTarget through
@@ -197,6 +216,15 @@ export function cellTiming(t: TimingInputs): CellTiming {
   const andInput = def.inputKind === "and";
   const vPLow = d.vCESatVolts + d.vDiodeOnVolts;
   const vPOn = op.vInputNodeVolts;
+  // Collector junctions of the other transistors on a wired net, over each half swing.
+  const tied = load.tiedCollectors ?? 0;
+  const cTiedFall = tied * jc.mean(-vOH, -v50);
+  const cTiedRise = tied * jc.mean(-vOL, -v50);
+  // Fast variants: the speed-up capacitor at its low end, the swing that drives it, the clamp.
+  const su = def.speedUp;
+  const cSu = su?.capacitorKey !== undefined ? capacitorOf(values).farads * (1 - capacitorOf(values).tolerance) : 0;
+  const suSwing = cSu > 0 ? speedUpSwingVolts(def, env, op, t.drive) : 0;
+  const js = su?.clamp ? junctionOf(t.schottky ?? DEFAULT_SCHOTTKY_MODEL.params, "CJO", "VJ", "M", 0.35, 0.35) : undefined;
 
   // --- Output falling -------------------------------------------------------------------
   // Charge the base side needs to bring the output to 50 %: the input node up to its on level
@@ -209,6 +237,7 @@ export function cellTiming(t: TimingInputs): CellTiming {
     je.mean(0, d.vBECutInVolts) * (vBE - d.vBECutInVolts) +
     jc.charge(vBE - vOH, vBE - v50) +
     tf * iCs;
+  if (js) qBase += js.charge(vBE - vOH, vBE - v50);
   if (andInput) {
     // Node capacitance: the other input diodes, and the level-shift diodes (or the follower).
     const cOthers = (t.fanin - 1) * jd.mean(-(vOH - vPLow), -(vOH - vPOn));
@@ -222,13 +251,25 @@ export function cellTiming(t: TimingInputs): CellTiming {
         je.mean(0, d.vBECutInVolts) +
         jc.mean(vPLow - vcc, vPOn - vcc);
       qNode = (cOthers + cFollower) * Math.max(0, vPOn - vPLow);
+      if (cSu > 0) {
+        // A speed-up capacitor ties the follower's base to the output transistor's base: until
+        // it has charged by its off-to-on change, the base is fed through it by the pull-up alone.
+        const qVia = Math.min(qBase, cSu * Math.max(0, vPOn - d.vBESatVolts - vPLow));
+        qNode += qVia;
+        qBase -= qVia;
+      }
       const rPull = def.timingHints.nodePullUpKeys.reduce((acc, k) => acc + (values[k] ?? 0), 0);
       const iNode = Math.max(vcc - (vPLow + vPOn) / 2, 1e-3) / rPull;
       tNode = Math.max(0, qNode - qKick) / iNode;
       qKick = Math.max(0, qKick - qNode);
     } else {
       const cLs = nLs > 0 ? jd.mean(0, d.vDiodeCutInVolts) / nLs : 0;
-      qNode = (cOthers + cLs) * Math.max(0, vPOn - vPLow);
+      if (cSu > 0) {
+        // The capacitor carries the node's charge straight into the base: the node rises only
+        // by V_BE plus what the capacitor's own voltage gains, and the level-shift diodes are
+        // bypassed.
+        qNode = cOthers * Math.min(Math.max(0, vPOn - vPLow), vBE + qBase / cSu);
+      } else qNode = (cOthers + cLs) * Math.max(0, vPOn - vPLow);
       qBase += qNode;
     }
   } else {
@@ -237,40 +278,70 @@ export function cellTiming(t: TimingInputs): CellTiming {
     const clamp = load.orClampVolts > 0 ? Math.min(vcc, 2 * d.vDiodeOnVolts + d.vBESatVolts) : vcc;
     const vIn50 = (t.drive.vLowMaxVolts + clamp) / 2;
     const vCond = clamp - 0.15;
-    const cIn =
+    let cIn =
       t.fanin * jd.mean(t.drive.vLowMaxVolts - vPOn, 0) +
       nLs * jd.mean(0, d.vDiodeCutInVolts) +
       (t.inputWiringFarads ?? 0);
+    if (cSu > 0) {
+      // The rising input charges its capacitor, which delivers that charge into the base; the
+      // other inputs' capacitors (their inputs low) hang on the base and take V_BE's worth.
+      cIn += cSu;
+      qBase += (t.fanin - 1) * cSu * vBE;
+      qKick = cSu * Math.max(0, vCond - vBE - t.drive.vLowMaxVolts);
+    }
     const rs = t.drive.orSourceOhms;
     if (vCond > vIn50 && Number.isFinite(rs) && vcc > vCond) tNode = rs * cIn * Math.log((vcc - vIn50) / (vcc - vCond));
   }
   // The kick arrives as the stepped diode recovers, within about its transit time.
   const tBase = Math.max(andInput && qKick > 0 ? ttd * Math.LN2 : 0, Math.max(0, qBase - qKick) / iB1);
+  // Speed-up capacitors of diode-AND loads: their charge is sunk as the output falls.
+  const qLoadSu = load.speedUpChargeCoulombs ?? 0;
   // The collector must also discharge the load capacitance, with what the base drive allows.
   const sinkExcess = Math.max(betaOn * iB1 - iCs / 2, 1e-30);
-  const tLoadFall = (load.capacitanceFarads * (vOH - v50)) / sinkExcess;
+  const tLoadFall = ((load.capacitanceFarads + cTiedFall) * (vOH - v50) + qLoadSu) / sinkExcess;
   const tTurnOn = turnOnTimeSeconds(betaOn * tf, iB1, iCs, betaOn);
-  const tPHL = tNode + tBase + tLoadFall;
+  // Charge control of the load's discharge: the collector current that discharges C_L at the
+  // Miller-limited slew I_B1/C_μ needs base charge τ_F·C_L·I_B1/C_μ first, which I_B1 builds in
+  // τ_F·C_L/C_μ.
+  const cMiller = jc.mean(vBE - vOH, vBE - v50) + (js ? js.mean(vBE - vOH, vBE - v50) : 0);
+  const tLoadRamp = cMiller > 0 ? (tf * (load.capacitanceFarads + cTiedFall)) / cMiller : 0;
+  const tPHL = tNode + tBase + tLoadFall + tLoadRamp;
 
   // --- Output rising --------------------------------------------------------------------
   // Reverse base current through R_B while the transistor is still on.
   const iB2 = vBE / values.rbOhms!;
   // The level-shift diodes recover as the input node falls and pull some charge out of the base.
   let qOff = 0;
-  if (nLs > 0 && def.variant === "basic") {
+  if (nLs > 0 && (def.variant === "basic" || (su !== undefined && !def.timingHints?.follower))) {
     const cSeries = jd.mean(0, d.vDiodeCutInVolts) / nLs;
     qOff = ttd * op.i1Amps + cSeries * Math.max(0, vPOn - (andInput ? vPLow : d.vCESatVolts));
   }
   const tauS = storageTimeConstantSeconds(npn);
-  const iB1Eff = Math.max(iCs / betaOff, iB1 - (tauS > 0 ? qOff / tauS : 0));
-  const ts = storageTimeSeconds(tauS, iB1Eff, iB2, iCs, betaOff);
+  // The speed-up capacitor's charge, pulled out of the base as the driving node falls.
+  const qSu = cSu * suSwing;
+  const iB1Eff = Math.max(iCs / betaOff, iB1 - (tauS > 0 ? (qOff + qSu) / tauS : 0));
+  // A clamped transistor holds no stored charge.
+  const ts = su?.clamp ? 0 : storageTimeSeconds(tauS, iB1Eff, iB2, iCs, betaOff);
+  // Charge the capacitor pulls beyond the stored charge: it removes the active charge τ_F·I_C,
+  // then holds the base below cut-in against the Miller charge.
+  const qStored = su?.clamp ? 0 : Math.max(0, tauS * (iB1 - iCs / betaOff));
+  const qActive = tf * iCs;
+  let qSpare = Math.max(0, qOff + qSu - qStored);
+  const decayShare = qSpare > 0 && qActive > 0 ? Math.max(0, 1 - qSpare / qActive) : 1;
+  qSpare = Math.max(0, qSpare - qActive);
   // Collector current falling to half (charge control, τ = β·τ_F).
   const tauOff = betaOff * tf;
-  const tDecay = tauOff * Math.log((iCs + betaOff * iB2) / (0.5 * iCs + betaOff * iB2));
-  // Output rising: Miller-limited first, then R_C charging the load and the collector junction.
-  const cjcRise = jc.mean(vBE - vOL, vBE - v50);
-  const cRise = load.capacitanceFarads + cjcRise;
-  const tRise = millerLimitedRiseSeconds(vOL, v50, vcc, rc, cRise, iB2, cjcRise);
+  const tDecay = decayShare * tauOff * Math.log((iCs + betaOff * iB2) / (0.5 * iCs + betaOff * iB2));
+  // Output rising: Miller-limited first, then R_C charging the load and the collector junction
+  // (and the clamp diode's junction).
+  const cjcRise = jc.mean(vBE - vOL, vBE - v50) + (js ? js.mean(vBE - vOL, vBE - v50) : 0);
+  const cRise = load.capacitanceFarads + cTiedRise + cjcRise;
+  let tRise = millerLimitedRiseSeconds(vOL, v50, vcc, rc, cRise, iB2, cjcRise);
+  if (qSpare > 0 && cjcRise > 0 && v50 > vOL) {
+    // The capacitor's spare charge takes the Miller charge in R_B's place, as far as it goes.
+    const tRc = millerLimitedRiseSeconds(vOL, v50, vcc, rc, cRise, iB2, 0);
+    tRise = tRc + (tRise - tRc) * Math.max(0, 1 - qSpare / (cjcRise * (v50 - vOL)));
+  }
   const tPLH = ts + tDecay + tRise;
   return {
     tPHLSeconds: tPHL,
@@ -278,6 +349,6 @@ export function cellTiming(t: TimingInputs): CellTiming {
     tStorageSeconds: ts,
     tTurnOnSeconds: Number.isFinite(tTurnOn) ? tTurnOn : Infinity,
     tRiseSeconds: tRise,
-    loadCapacitanceFarads: load.capacitanceFarads,
+    loadCapacitanceFarads: load.capacitanceFarads + cTiedRise,
   };
 }

@@ -59,8 +59,16 @@ export interface SizingOptions {
   wiringCapacitancePerLoadFarads?: number;
   /** Fraction of an equal share the weakest of several diode-OR loads gets (default 0.8). */
   orShareFactor?: number;
-  /** `auto` (default): use the high-fan-out variant where the basic cell cannot meet the fan-out. */
+  /** `auto` (default): use the high-fan-out variant where the basic cell cannot meet the fan-out,
+   *  and, under a speed budget the basic cells miss, the cheapest fast variant (speed-up
+   *  capacitor, Schottky clamp, both) that meets it. `basic`: the basic cells only. */
   variants?: "auto" | "basic";
+  /** Fast variants: the speed-up capacitor's series (default E6), tolerance (default the series'
+   *  usual one: E6 20 %, E12 10 %, E24 5 %) and allowed range (default 10 pF – 1 nF). */
+  capacitorSeries?: "E6" | "E12" | "E24";
+  capacitorTolerance?: number;
+  capacitorMinFarads?: number;
+  capacitorMaxFarads?: number;
   /** Skip the search and use these values (per cell id, e.g. { nand: { rpOhms: 5000, ... } }). */
   forcedValues?: Record<string, Record<string, number>>;
 }
@@ -140,11 +148,23 @@ export interface CellAnalysis {
   powerHighWatts: number;
   supplyCurrentAmps: number;
   timing?: CellTiming;
+  /** Wired-AND: how the output sits on a wired net (absent: the output is the cell's own). */
+  wired?: WiredFigures;
   nominal: OperatingFigures;
   constraints: ConstraintResult[];
   /** Id of the constraint with the least margin. */
   binding: string;
   bindingMargin: number;
+}
+
+export interface WiredFigures {
+  /** Transistors on the net (driver and tied). */
+  collectors: number;
+  /** False for a tied cell (no R_C of its own). */
+  ownsPullUp: boolean;
+  /** Worst (hot-corner) current the net's R_C carries when high besides diode-OR loads: the
+   *  collectors' leakage and the diode-AND loads' reverse leakage. */
+  highLeakageAmps: number;
 }
 
 export interface SizedCellType {
@@ -162,6 +182,9 @@ export interface SizedCellType {
   analysis: CellAnalysis;
   /** Cell indices using this type. */
   cells: number[];
+  /** Wired-AND: cells of this type are tied onto a net another cell drives; the subcircuit has no
+   *  R_C (`values.rcOhms` is the pull-up on the net, a part of the net's driver). */
+  openCollector?: boolean;
 }
 
 export interface Component {
@@ -180,6 +203,9 @@ export interface Component {
   role: string;
   /** Worst-case dissipation found for this part. */
   worstPowerWatts?: number;
+  /** Capacitors: rated voltage (the next standard rating at least twice the highest voltage
+   *  across the part, common practice). */
+  voltageRatingVolts?: number;
 }
 
 export interface SizedInstance {
@@ -205,7 +231,8 @@ export interface PathTiming {
 export interface SizedDesign {
   netlist: CellNetlist;
   parameters: SizingParameter[];
-  models: { diode: ModelCard; npn: ModelCard };
+  /** `schottky`: the clamp diode of the fast cells, when the design has any. */
+  models: { diode: ModelCard; npn: ModelCard; schottky?: ModelCard };
   cellTypes: SizedCellType[];
   instances: SizedInstance[];
   components: Component[];

@@ -3,7 +3,7 @@
 import type { SizedDesign } from "../electrical/types.js";
 import { compareDesignators, designatorRanges, eng } from "./format.js";
 import { render } from "./render.js";
-import { tiesOf } from "./spice.js";
+import { tiesOf, wiredNetsOf } from "./spice.js";
 import { generatedBy, type EmitContext } from "./context.js";
 
 export interface BomRow {
@@ -33,14 +33,24 @@ function ratingText(watts: number | undefined): string {
   return eng(watts, "W");
 }
 
+const rowsMade = new WeakMap<SizedDesign, BomRow[]>();
+
+/** The parts list's rows, made once a design (the parts list, the report and the JSON all read
+ *  them). */
 export function bomRows(design: SizedDesign): BomRow[] {
+  let rows = rowsMade.get(design);
+  if (!rows) rowsMade.set(design, (rows = makeBomRows(design)));
+  return rows;
+}
+
+function makeBomRows(design: SizedDesign): BomRow[] {
   type Part = { designator: string; kind: BomRow["kind"]; value: string; tolerance: string; rating: string; description: string; partNumber: string; sortValue: number };
   const parts: Part[] = design.components.map((c) => ({
     designator: c.designator,
     kind: c.kind,
     value: c.kind === "R" ? eng(c.value, "Ω") : c.kind === "C" ? eng(c.value, "F") : c.partNumber ?? c.valueText,
     tolerance: c.tolerance !== undefined ? `±${Math.round(c.tolerance * 1000) / 10} %` : "",
-    rating: c.kind === "R" || c.kind === "C" ? ratingText(c.powerRatingWatts) : "",
+    rating: c.kind === "R" ? ratingText(c.powerRatingWatts) : c.kind === "C" ? (c.voltageRatingVolts !== undefined ? `${c.voltageRatingVolts} V` : "") : "",
     description: c.description,
     partNumber: c.partNumber ?? "",
     sortValue: c.value,
@@ -105,6 +115,15 @@ export function renderBom(ctx: EmitContext, files: { netlist: string }): { markd
     notes: [
       "Resistor ratings include 50 % derating at the worst-case dissipation (common practice); check them against your parts' datasheets at your highest ambient temperature.",
       "Diode and transistor values are the generic models of the netlist unless a parts file named your own part numbers.",
+      ...(rows.some((r) => r.kind === "C")
+        ? ["Speed-up capacitors: ceramic, C0G/NP0 for a value that holds over temperature, rated at the next standard voltage at least twice the highest supply (common practice)."]
+        : []),
+      ...(ctx.design.models.schottky
+        ? [`Clamp diodes (DSC in each fast cell): small-signal Schottky, model ${ctx.design.models.schottky.partNumber ?? ctx.design.models.schottky.name}; a parts file's "schottky" entry names your own part.`]
+        : []),
+      ...wiredNetsOf(ctx.design).map(
+        (w) => `Wired-AND net ${w.name}: one collector resistor, ${w.pullUp}, for the tied outputs of U${w.driver + 1}, ${w.tied.map((c) => `U${c + 1}`).join(", ")} (the tied cells have none).`,
+      ),
     ],
   };
   const csv = render("bom.csv", view).replace(/\r?\n/g, "\r\n"); // RFC 4180 line breaks

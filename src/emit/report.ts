@@ -2,6 +2,7 @@
 import type { CellAnalysis, OperatingFigures, SizedDesign } from "../electrical/types.js";
 import { cellById } from "../cells/registry.js";
 import { bomRows, bomTotals } from "./bom.js";
+import { wiredNetsOf } from "./spice.js";
 import { eng, num, parameterText } from "./format.js";
 import { render } from "./render.js";
 import { generatedBy, type EmitContext } from "./context.js";
@@ -31,10 +32,39 @@ function fig(x: OperatingFigures) {
   };
 }
 
-function valuesText(values: Record<string, number>): string {
-  return Object.entries(values)
-    .map(([k, v]) => `${k.replace(/Ohms$/, "").replace(/^r/, "R_").toUpperCase()} ${eng(v, "Ω")}`)
+function valuesText(values: Record<string, number>, openCollector = false): string {
+  const own = Object.entries(values)
+    .filter(([k]) => !(openCollector && k === "rcOhms") && (k.endsWith("Ohms") || k.endsWith("Farads")))
+    // A fast cell's speed-up capacitor (csuFarads) in farads.
+    .map(([k, v]) => (k.endsWith("Farads") ? `${k.replace(/Farads$/, "").replace(/^c/, "C_").toUpperCase()} ${eng(v, "F")}` : `${k.replace(/Ohms$/, "").replace(/^r/, "R_").toUpperCase()} ${eng(v, "Ω")}`))
     .join(", ");
+  return openCollector && values.rcOhms !== undefined ? `${own}; no R_C (the net's ${eng(values.rcOhms, "Ω")})` : own;
+}
+
+/** The wired-AND nets for the report: cells on each, the one collector resistor, and the worst
+ *  high level, leakage and rise time the sizing found for it. */
+function wiredView(d: SizedDesign) {
+  const nets = wiredNetsOf(d);
+  if (!nets.length) return undefined;
+  const tied = nets.reduce((acc, w) => acc + w.tied.length, 0);
+  return {
+    summary: `${nets.length} net${nets.length === 1 ? "" : "s"}, ${tied} tied output${tied === 1 ? "" : "s"} (${tied} collector resistor${tied === 1 ? "" : "s"} saved)`,
+    rows: nets.map((w) => {
+      const cells = [w.driver, ...w.tied];
+      const analyses = cells.map((c) => d.instances[c]!.analysis);
+      const worst = (f: (a: CellAnalysis) => number, pick: (...x: number[]) => number) => pick(...analyses.map(f));
+      return {
+        net: w.name,
+        cells: `U${w.driver + 1} (holds R_C), ${w.tied.map((c) => `U${c + 1}`).join(", ")}`,
+        pullUp: `${w.pullUp} ${eng(w.pullUpOhms, "Ω")}`,
+        collectors: cells.length,
+        vOH: eng(worst((a) => a.vOHVolts, Math.min), "V"),
+        leakage: eng(worst((a) => a.wired?.highLeakageAmps ?? 0, Math.max), "A"),
+        satMargin: num(worst((a) => a.satMargin, Math.min)),
+        tPLH: eng(worst((a) => a.timing?.tPLHSeconds ?? 0, Math.max), "s"),
+      };
+    }),
+  };
 }
 
 function constraintValue(v: number, unit: string): string {
@@ -47,7 +77,7 @@ export function reportView(ctx: EmitContext, files: { name: string; what: string
   const nl = d.netlist;
   const rows = bomRows(d);
   const totals = bomTotals(rows);
-  const cellCounts = d.cellTypes.map((t) => `${t.cells.length} × ${t.fn.toUpperCase()}-${t.fanin}${t.variant !== "basic" ? ` (${t.variant})` : ""}`);
+  const cellCounts = d.cellTypes.map((t) => `${t.cells.length} × ${t.fn.toUpperCase()}-${t.fanin}${t.variant !== "basic" ? ` (${t.variant})` : ""}${t.openCollector ? " open collector (wired-AND)" : ""}`);
   const eq = ctx.equivalence;
   const partial = eq.cones.filter((c) => !c.exhaustive).length;
   const equivalenceText = eq.equivalent
@@ -94,13 +124,14 @@ export function reportView(ctx: EmitContext, files: { name: string; what: string
     })),
     cornerCount: d.corners.length,
     cornersText: d.corners.join("; "),
-    cellRows: d.cellTypes.map((t) => ({ key: t.key, count: t.cells.length, values: valuesText(t.values), ...analysisRow(t.analysis) })),
+    cellRows: d.cellTypes.map((t) => ({ key: t.key, count: t.cells.length, values: valuesText(t.values, t.openCollector), ...analysisRow(t.analysis) })),
+    wired: wiredView(d),
     cellDetails: d.cellTypes.map((t) => {
       const def = cellById(t.cellId);
       const tm = t.analysis.timing;
       return {
         key: t.key,
-        title: def?.title ?? t.cellId,
+        title: `${def?.title ?? t.cellId}${t.openCollector ? ", open collector: tied onto a wired-AND net, no R_C of its own" : ""}`,
         source: def?.source ?? "the cell's design equations",
         nominal: fig(t.analysis.nominal),
         timingText: tm
@@ -117,14 +148,14 @@ export function reportView(ctx: EmitContext, files: { name: string; what: string
       };
     }),
     equivalenceDetail: eq.equivalent
-      ? `Before any file was written, the mapped cells were compared with the source logic for every output${ctx.stateNames.length ? " and for the next value of every state signal (with the state signals as free variables)" : ""}.${partial ? " Cones with more than 20 free variables were checked with seeded random vectors: the check is partial for them." : ""}`
+      ? `Before any file was written, the mapped cells were compared with the source logic for every output${ctx.stateNames.length ? " and for the next value of every state signal (with the state signals as free variables)" : ""}.${partial ? " Cones with more than 20 free variables were checked with seeded random vectors: the check is partial for them." : ""}${eq.cones.some((c) => c.limitedBy === "work") ? " The exhaustive check's work budget ran out before some smaller cones; they too were checked with the random vectors only (method: random, work budget)." : ""}`
       : "The mapped cells do not compute the source logic.",
     cones: eq.cones.map((c) => ({
       name: c.name,
       kind: c.kind === "state" ? "state (next value)" : "output",
       support: c.support,
       vectors: c.vectors,
-      method: c.exhaustive ? "exhaustive" : "random (partial)",
+      method: c.exhaustive ? "exhaustive" : c.limitedBy === "work" ? "random (partial: work budget)" : "random (partial)",
     })),
     testbenchFile: files.find((f) => f.name.endsWith(".tb.cir"))?.name ?? "",
     stimulusText: ctx.stimulus.clock
@@ -145,10 +176,17 @@ function optimizationView(ctx: EmitContext) {
   const o = ctx.optimization;
   if (!o) return undefined;
   const row = (label: string, t: typeof o.before) => ({ label, cells: t.cells, transistors: t.transistors, diodes: t.diodes, resistors: t.resistors, parts: t.parts, nand2: t.nand2, cost: num(t.cost, 4) });
+  const wired = o.mapping.wiredAnd;
+  const plain = o.afterWithoutWiredAnd;
   return {
     level: o.level,
     model: o.costModel.description,
-    rows: [row("as written, mapped directly", o.before), row(`after optimization (--opt ${o.level})`, o.after)],
+    rows: [
+      row(`as written, mapped directly${wired ? " (wired-AND allowed)" : ""}`, o.before),
+      ...(plain ? [row(`after optimization (--opt ${o.level}), without wired-AND`, plain)] : []),
+      row(`after optimization (--opt ${o.level})${plain ? ", with wired-AND" : ""}`, o.after),
+    ],
+    wiredSavingText: plain ? `Wired-AND saves ${plain.parts - o.after.parts} part${plain.parts - o.after.parts === 1 ? "" : "s"} (${plain.resistors - o.after.resistors} resistors, ${plain.transistors - o.after.transistors} transistors, ${plain.diodes - o.after.diodes} diodes) against the same logic without it.` : "",
     passes: o.passes.map((p) => ({ pass: p.pass, before: num(p.costBefore, 4), after: num(p.costAfter, 4), kept: p.accepted ? "kept" : "dropped (no cheaper)" })),
     notes: o.notes.map((n) => (n.signal ? `${n.signal}: ${n.message}` : n.message)),
   };
@@ -183,6 +221,7 @@ export function designJson(ctx: EmitContext, files: { name: string; what: string
       variant: t.variant,
       count: t.cells.length,
       values: t.values,
+      openCollector: t.openCollector ?? false,
       analysis: t.analysis,
     })),
     cells: nl.cells.map((c) => {
@@ -200,7 +239,9 @@ export function designJson(ctx: EmitContext, files: { name: string; what: string
       fromSource: n.named,
       driver: n.driver.kind === "cell" ? `U${n.driver.cell + 1}` : n.driver.kind === "input" ? "input" : `constant ${n.driver.value}`,
       loads: n.loads.map((l) => ({ cell: `U${l.cell + 1}`, pin: l.pin + 1 })),
+      ...(n.tiedCells?.length ? { tied: n.tiedCells.map((c) => `U${c + 1}`) } : {}),
     })),
+    wiredNets: wiredNetsOf(d).map((w) => ({ net: w.name, driver: `U${w.driver + 1}`, tied: w.tied.map((c) => `U${c + 1}`), pullUp: w.pullUp, pullUpOhms: w.pullUpOhms })),
     partsList: bomRows(d).map((r) => ({
       quantity: r.quantity,
       designators: r.designatorList,

@@ -38,6 +38,40 @@ function elementLine(e: SizedDesign["cellTypes"][number]["elements"][number], de
   }
 }
 
+/** A wired-AND net: open-collector outputs of several cells tied together, with one collector
+ *  resistor (the driver's). */
+export interface WiredNet {
+  net: number;
+  name: string;
+  /** Cell holding the collector resistor, then the tied cells. */
+  driver: number;
+  tied: number[];
+  /** Designator of the one collector resistor. */
+  pullUp: string;
+  pullUpOhms: number;
+}
+
+export function wiredNetsOf(design: SizedDesign): WiredNet[] {
+  const out: WiredNet[] = [];
+  for (const n of design.netlist.nets) {
+    if (n.driver.kind !== "cell" || !n.tiedCells?.length) continue;
+    const inst = design.instances[n.driver.cell]!;
+    const type = design.cellTypes[inst.cellType]!;
+    const rc = type.elements.find((e) => e.kind === "R" && e.name === "RC");
+    out.push({ net: n.index, name: n.name, driver: n.driver.cell, tied: [...n.tiedCells], pullUp: inst.designators["RC"] ?? "", pullUpOhms: rc?.value ?? type.values.rcOhms ?? 0 });
+  }
+  return out;
+}
+
+/** "R_P = 4.3 kΩ, R_B = ...", with the pull-up of an open-collector type named as the net's. */
+function typeValuesText(t: SizedDesign["cellTypes"][number]): string {
+  const label = (k: string) => `${k.replace(/Ohms$/, "").replace(/^r/, "R_").toUpperCase().replace("R_", "R_")}`;
+  const own = Object.entries(t.values).filter(([k]) => !(t.openCollector && k === "rcOhms") && (k.endsWith("Ohms") || k.endsWith("Farads")));
+  // A fast cell's speed-up capacitor: C_SU in farads.
+  const text = own.map(([k, v]) => (k.endsWith("Farads") ? `${k.replace(/Farads$/, "").replace(/^c/, "C_").toUpperCase()} = ${eng(v, "F")}` : `${label(k)} = ${eng(v, "Ω")}`)).join(", ");
+  return t.openCollector && t.values.rcOhms !== undefined ? `${text}; no R_C: pulled up by the ${eng(t.values.rcOhms, "Ω")} R_C of its net's driver` : text;
+}
+
 /** Resistors that tie a constant output to the supply or to ground. */
 export interface Tie {
   net: number;
@@ -62,7 +96,8 @@ export function renderNetlist(ctx: EmitContext, names: SpiceNames): string {
   const nl = d.netlist;
   const supply = d.parameters.find((p) => p.name === "supplyVolts");
   const topPorts = [...names.inputs, ...names.outputs, "vcc"].join(" ");
-  const models = [d.models.diode, d.models.npn].map((m) => ({
+  // The fast cells' Schottky clamp diode has a card of its own when the design uses it.
+  const models = [d.models.diode, d.models.npn, ...(d.models.schottky ? [d.models.schottky] : [])].map((m) => ({
     name: m.name,
     type: m.type,
     description: m.partNumber ? `${m.description} (part ${m.partNumber})` : m.description,
@@ -72,13 +107,13 @@ export function renderNetlist(ctx: EmitContext, names: SpiceNames): string {
   }));
   const cellTypes = d.cellTypes.map((t) => ({
     key: t.key,
-    description: `${t.fn.toUpperCase()}-${t.fanin} (${t.variant} DTL cell${t.fanin === 1 ? ", inverter" : ""}); ports: ${t.pins.join(" ")}`,
-    valuesText: Object.entries(t.values)
-      .map(([k, v]) => `${k.replace(/Ohms$/, "").replace(/^r/, "R_").toUpperCase().replace("R_", "R_")} = ${eng(v, "Ω")}`)
-      .join(", "),
+    description: `${t.fn.toUpperCase()}-${t.fanin} (${t.variant} DTL cell${t.fanin === 1 ? ", inverter" : ""}${t.openCollector ? ", open collector for a wired-AND net" : ""}); ports: ${t.pins.join(" ")}`,
+    valuesText: typeValuesText(t),
     pins: t.pins.join(" "),
     elements: t.elements.map((e) => ({ line: elementLine(e, d) })),
   }));
+  const wiredNets = wiredNetsOf(d);
+  const wiredByNet = new Map(wiredNets.map((w) => [w.net, w]));
   const instances = d.instances.map((inst) => {
     const cell = nl.cells[inst.cell]!;
     const type = d.cellTypes[inst.cellType]!;
@@ -87,8 +122,10 @@ export function renderNetlist(ctx: EmitContext, names: SpiceNames): string {
       .map(([local, global]) => `${local}=${global}`)
       .join(" ");
     const signal = nl.nets[cell.output]!.name;
+    const wired = wiredByNet.get(cell.output);
+    const role = !wired ? "" : cell.tiedOutput ? " (tied on, wired-AND: no collector resistor of its own)" : ` (wired-AND: holds the net's collector resistor ${wired.pullUp})`;
     return {
-      comment: `U${inst.cell + 1} drives ${signal}: ${parts}`,
+      comment: `U${inst.cell + 1} drives ${signal}${role}: ${parts}`,
       line: `XU${inst.cell + 1} ${nodes.join(" ")} ${type.key}`,
     };
   });
@@ -110,6 +147,9 @@ export function renderNetlist(ctx: EmitContext, names: SpiceNames): string {
       sourceText: p.source === "user" ? "given" : "default",
     })),
     renamed: names.namer.renamed(),
+    wiredNets: wiredNets.map((w) => ({
+      line: `${w.name}${names.net[w.net] !== w.name ? ` (node ${names.net[w.net]})` : ""}: U${w.driver + 1} with ${w.pullUp} ${eng(w.pullUpOhms, "Ω")}, tied: ${w.tied.map((c) => `U${c + 1}`).join(", ")}`,
+    })),
     topPorts,
     models,
     cellTypes,
@@ -167,6 +207,37 @@ export function stateMeasureName(step: number, node: string): string {
 }
 /** Base resistor of the testbench's input driver transistors (drive well into saturation). */
 export const DRIVER_BASE_OHMS = 2200;
+/** The input drivers' base current is at least this many times what saturation needs at the
+ *  coldest corner with the least gain (common practice for a hard-saturated switch). */
+export const DRIVER_OVERDRIVE = 2;
+
+/**
+ * Base resistor of the driver of primary input `net`: DRIVER_BASE_OHMS, or less when the driver
+ * must sink more than that gives at the sizing's worst corner: the pull-up's current at the
+ * highest supply and the low end of its tolerance, plus every diode-AND load's input current
+ * (supply over the load's input pull-up, at its low end), with β_min at the coldest corner.
+ */
+export function driverBaseOhms(design: SizedDesign, net: number): number {
+  const p = (name: string, d: number) => design.parameters.find((x) => x.name === name)?.value ?? d;
+  const v = p("supplyVolts", 5);
+  const tol = p("supplyTolerance", 0.05);
+  const rTol = design.resistorTolerance;
+  const vMax = v * (1 + tol);
+  const vMin = v * (1 - tol);
+  const betaCold = p("betaMin", 30) * ((p("tempMinC", 0) + 273.15) / 298.15) ** p("betaTempExponent", 1.5);
+  let amps = vMax / (design.inputDriver.pullUpOhms * (1 - rTol));
+  const seen = new Set<number>();
+  for (const l of design.netlist.nets[net]!.loads) {
+    if (seen.has(l.cell)) continue;
+    seen.add(l.cell);
+    const t = design.cellTypes[design.instances[l.cell]!.cellType]!;
+    if (cellById(t.cellId)?.inputKind === "or") continue;
+    const pull = (t.values.rpOhms ?? 0) + (t.values.rxOhms ?? 0);
+    if (pull > 0) amps += vMax / (pull * (1 - rTol));
+  }
+  const base = (Math.max(0.1, vMin - 0.8) * betaCold) / (DRIVER_OVERDRIVE * amps);
+  return base >= DRIVER_BASE_OHMS ? DRIVER_BASE_OHMS : Number(base.toPrecision(2));
+}
 export const SAMPLE_FRACTION = 0.05;
 
 /** Sample time of step i: a little before the step ends. */
@@ -244,7 +315,7 @@ export function renderTestbench(ctx: EmitContext, names: SpiceNames, files: { ne
       `* input ${nl.nets[nl.inputs[k]!]!.name}: pull-up ${eng(drv.pullUpOhms, "Ω")}, transistor to ground`,
       `R_PU_${node} vcc ${node} ${spiceNumber(drv.pullUpOhms)}`,
       `Q_DRV_${node} ${node} drvb_${node} 0 ${d.models.npn.name}`,
-      `R_DRV_${node} drvc_${node} drvb_${node} ${spiceNumber(DRIVER_BASE_OHMS)}`,
+      `R_DRV_${node} drvc_${node} drvb_${node} ${spiceNumber(driverBaseOhms(d, nl.inputs[k]!))}`,
     ];
     const head = `V_DRV_${node} drvc_${node} 0 PWL(`;
     let line = head;

@@ -1,7 +1,7 @@
 // The whole job as one pure function: source text and options in; the files of a run, the
 // intermediate results and the diagnostics out. Nothing here touches the file system.
-import { diag, hasErrors, type Diagnostic } from "../diagnostics/index.js";
-import { checkEquivalence, dontCareMask, type EquivalenceResult, type LogicGraph } from "../logic/index.js";
+import { appendDiagnostics, capDiagnostics, diag, hasErrors, type Diagnostic } from "../diagnostics/index.js";
+import { checkEquivalence, dontCareMask, partialCheckText, type EquivalenceResult, type LogicGraph } from "../logic/index.js";
 import { optimizeDesign, type OptimizationReport, type OptLevel } from "../optimize/index.js";
 import { cellsToLogic, dtlCostModel, mapToCells, tallyParts, type CellChoice, type CellNetlist, type CostModel } from "../map/index.js";
 import { sizeDesign } from "../electrical/size.js";
@@ -93,7 +93,7 @@ export function synthesize(text: string, file: string, opts: SynthesisOptions): 
   const out: Synthesis = { diagnostics, stateNames: [] };
   try {
     const front = readDesign(text, file, opts.top !== undefined ? { top: opts.top } : {});
-    diagnostics.push(...front.diagnostics);
+    appendDiagnostics(diagnostics, front.diagnostics);
     if (!front.graph || hasErrors(diagnostics)) return out;
     const g = front.graph;
     out.graph = g;
@@ -107,20 +107,23 @@ export function synthesize(text: string, file: string, opts: SynthesisOptions): 
     const costModel = opts.costModel ?? dtlCostModel();
     const mapExtras = { costModel, ...(opts.maxFanout !== undefined ? { maxFanout: opts.maxFanout } : {}), wiredAnd: !!opts.wiredAnd };
     const opt = optimizeDesign(g, { stateNames: keptNames, maxFanin: opts.maxFanin, level: opts.opt ?? 2, cells: opts.cells, ...mapExtras });
-    diagnostics.push(...opt.diagnostics);
+    appendDiagnostics(diagnostics, capDiagnostics(opt.diagnostics, file));
     out.optimizationReport = opt.report;
     const optimized = opt.graph;
+    const constantOutputs: Diagnostic[] = [];
+    const sourcePorts = new Map(g.outputs.map((p) => [p.name, p] as const));
     for (const o of optimized.outputs) {
       const op = optimized.nodes[o.node]!.op;
       if (op === "const0" || op === "const1") {
-        const port = g.outputs.find((p) => p.name === o.name);
-        diagnostics.push(
+        const port = sourcePorts.get(o.name);
+        constantOutputs.push(
           diag("GW3003", `output '${o.name}' is always ${op === "const1" ? 1 : 0}`, port?.span ? { file, span: port.span } : { file }, {
             hint: "it is tied to the supply or to ground through a resistor, with no cell",
           }),
         );
       }
     }
+    appendDiagnostics(diagnostics, capDiagnostics(constantOutputs, file));
     // Map and size. When the mixed mapping's NOR cells cannot be sized (diode-OR inputs share
     // their driver's current, so heavy fan-out defeats them), map again with NAND cells only,
     // unless the user chose the cell families.
@@ -140,22 +143,20 @@ export function synthesize(text: string, file: string, opts: SynthesisOptions): 
         ({ mapped, sized, report } = retry);
       }
     }
-    diagnostics.push(...mapped.diagnostics);
+    appendDiagnostics(diagnostics, capDiagnostics(mapped.diagnostics, file));
     if (!mapped.value) return out;
     const netlist = mapped.value;
     out.netlist = netlist;
-    if (netlist.cells.some((c) => c.tiedOutput)) {
-      // The mapping ties open-collector outputs together, but the electrical engine does not yet
-      // size one collector resistor shared by several transistors: refuse rather than emit a
-      // circuit whose values were not checked.
-      diagnostics.push(
-        diag("GW4005", "wired-AND outputs were mapped, but the electrical engine cannot yet size a collector resistor shared by several cells", { file }, {
-          hint: "build without --wired-and; the mapping alone (with its part savings) is shown by the optimizer's tests",
-        }),
-      );
-      return out;
-    }
+    // Wired-AND nets (tied open-collector outputs) are sized with their one shared collector
+    // resistor by src/electrical (GW4005, which refused them, is retired). The report shows the
+    // parts the same logic takes without them, so the saving is plain.
     out.optimizationReport = { ...report, after: tallyParts(netlist, costModel) };
+    if (netlist.cells.some((c) => c.tiedOutput)) {
+      const cellsUsed = report.mapping.cells;
+      const graphUsed = report === opt.report ? optimized : optimizeDesign(g, { stateNames: keptNames, maxFanin: opts.maxFanin, level: opts.opt ?? 2, cells: cellsUsed, ...mapExtras }).graph;
+      const plain = mapToCells(graphUsed, { stateNames: keptNames, maxFanin: opts.maxFanin, cells: cellsUsed, ...mapExtras, wiredAnd: false });
+      if (plain.value) out.optimizationReport.afterWithoutWiredAnd = tallyParts(plain.value, costModel);
+    }
 
     // Nothing is written unless the cells compute the source's logic.
     const builtLogic = cellsToLogic(netlist);
@@ -168,18 +169,14 @@ export function synthesize(text: string, file: string, opts: SynthesisOptions): 
       diagnostics.push(diag("GW9002", `the mapped cells do not compute the source's logic: ${why}`, { file }, { hint: "this is a bug in gatewright; please report it with the input file" }));
       return out;
     }
-    const partialCones = eq.cones.filter((c) => !c.exhaustive);
-    if (partialCones.length) {
-      diagnostics.push(
-        diag("GW3002", `the logic check was partial: ${partialCones.length} output or state cone${partialCones.length > 1 ? "s have" : " has"} more than 20 free variables and ${partialCones.length > 1 ? "were" : "was"} checked with ${partialCones[0]!.vectors} random vectors each`, { file }),
-      );
-    }
+    const partialText = partialCheckText(eq);
+    if (partialText) diagnostics.push(diag("GW3002", partialText, { file }));
 
     const hazards = checkFeedbackHazards(g, builtLogic, front.state, keptNames);
     out.hazards = hazards.hazards;
-    diagnostics.push(...hazards.diagnostics);
+    appendDiagnostics(diagnostics, capDiagnostics(hazards.diagnostics, file));
 
-    diagnostics.push(...(sized?.diagnostics ?? []));
+    appendDiagnostics(diagnostics, capDiagnostics(sized?.diagnostics ?? [], file));
     if (!sized?.value || hasErrors(diagnostics)) return out;
     const design = sized.value;
     out.design = design;
@@ -193,7 +190,7 @@ export function synthesize(text: string, file: string, opts: SynthesisOptions): 
     if (opts.maxClockCycles !== undefined) planOpts.maxCycles = opts.maxClockCycles;
     if (opts.minClockCycles !== undefined) planOpts.minCycles = opts.minClockCycles;
     const plan = planTestbench(g, design, front.state, stateNames, planOpts);
-    diagnostics.push(...plan.diagnostics);
+    appendDiagnostics(diagnostics, capDiagnostics(plan.diagnostics, file));
     if (plan.initial) out.initial = plan.initial;
     if (plan.timing) out.timing = plan.timing;
     const stimulus = plan.stimulus;

@@ -88,6 +88,8 @@ export function transferNetlist(design: SizedDesign, corner: VerifyCorner, netli
     else lines.push(`VT${s.cellType} sw ${s.inNode} DC 0`);
     const ins = Array.from({ length: t.fanin }, (_, k) => (k === 0 ? s.inNode : inactive));
     lines.push(`XT${s.cellType} ${ins.join(" ")} ${s.outNode} vcc ${t.key}`);
+    // An open-collector type (wired-AND) is pulled up by its net's collector resistor.
+    if (t.openCollector && t.values.rcOhms !== undefined) lines.push(`RPU${s.cellType} vcc ${s.outNode} ${spiceNumber(t.values.rcOhms)}`);
     const net = design.netlist.nets[design.netlist.cells[s.instance]!.output]!;
     net.loads.forEach((l, m) => {
       const lt = design.cellTypes[design.instances[l.cell]!.cellType]!;

@@ -101,3 +101,22 @@ describe("parts file", () => {
     expect(r.diagnostics[0]!.start).toBe('{ "diode": { "partNumber": '.length);
   });
 });
+
+describe("parts file: the fast cells' Schottky clamp diode", () => {
+  it("a \"schottky\" entry overrides the generic model, part number and drops; bad fields name their JSON path (GW6005)", () => {
+    const r = parsePartsFile(JSON.stringify({ schottky: { partNumber: "SCH-1", model: { CJO: "2p", IS: 5e-9 }, vForwardMinVolts: "0.3 V", vReverseMaxVolts: 70 } }));
+    expect(r.diagnostics).toEqual([]);
+    const s = resolveDevices(r.value).schottky!;
+    expect(s.card.params.CJO).toBeCloseTo(2e-12, 18);
+    expect(s.card.params.IS).toBe(5e-9);
+    expect(s.card.params.N).toBe(1.05); // the rest of the generic card stays
+    expect(s.card.partNumber).toBe("SCH-1");
+    expect(s.partNumber).toBe("SCH-1");
+    expect(s.vForwardMinVolts).toBeCloseTo(0.3, 12);
+    expect(s.vReverseMaxVolts).toBe(70);
+    const bad = validatePartsFile({ schottky: { vForwardVolts: -1, model: { XYZ: 1 } } });
+    expect(bad.diagnostics.map((d) => d.code)).toEqual(["GW6005", "GW6005"]);
+    expect(bad.diagnostics.map((d) => d.message).join("\n")).toMatch(/schottky\.model\.XYZ: unknown diode model parameter/);
+    expect(bad.diagnostics.map((d) => d.message).join("\n")).toMatch(/schottky\.vForwardVolts: must be greater than zero/);
+  });
+});
