@@ -330,7 +330,7 @@ function collapseCones(g: LogicGraph, ctx: CollapseOptions): LogicGraph {
     else if (m === "exact") ctx.counts.exact++;
     else if (m === "exact-bounded") ctx.counts.exactBounded++;
     else ctx.counts.heuristic++;
-    if (m === "heuristic") later.add("heuristic", "heuristic", r.name, (list) => `${list} minimized by the heuristic (espresso-style), not proven minimum`);
+    if (m === "heuristic") later.add("heuristic", "heuristic", r.name, (list) => `${list} minimized by the heuristic (expand / irredundant / reduce), not proven minimum`);
     if (m === "exact-bounded") later.add("bounded", "heuristic", r.name, (list) => `${list}: the search for a minimum cover stopped at its budget; the best cover found is used`);
   }
   later.flush(ctx);

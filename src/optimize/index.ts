@@ -10,7 +10,7 @@
 //   1  local clean-up: constant propagation and structural hashing, inverter minimization,
 //      merging AND and OR trees into wide gates
 //   2  (default) also: functional merging, two-level minimization with don't-cares (exact up to
-//      12 variables, espresso-style to 16, outputs together up to 10 so that they share terms;
+//      12 variables, expand / irredundant / reduce to 16, outputs together up to 10 so that they share terms;
 //      hazard-free covers for logic that feeds a loop), minimization of fan-out-free regions in
 //      large designs, XOR expansion, Boolean resubstitution, common-subexpression extraction
 //      and algebraic factoring.

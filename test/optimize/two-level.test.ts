@@ -166,7 +166,7 @@ describe("unate covering against exhaustive search", () => {
   });
 });
 
-describe("heuristic minimization (espresso-style): valid, prime and irredundant covers", () => {
+describe("heuristic minimization (expand / irredundant / reduce): valid, prime and irredundant covers", () => {
   for (const n of [4, 7, 10]) {
     it(`random functions of ${n} variables`, () => {
       const rand = seededRandom(500 + n);

@@ -1,10 +1,10 @@
-// Heuristic two-level minimization in the manner of espresso (Brayton, Hachtel, McMullen,
-// Sangiovanni-Vincentelli, *Logic Minimization Algorithms for VLSI Synthesis*, 1984): EXPAND
+// Heuristic two-level minimization after the published expand / irredundant / reduce loop
+// (Brayton, Hachtel, McMullen, Sangiovanni-Vincentelli, *Logic Minimization Algorithms for VLSI Synthesis*, 1984): EXPAND
 // every term to a prime, drop the terms the others cover (IRREDUNDANT), REDUCE each term to the
 // smallest one that still covers what only it covers, expand again in another direction, and
 // repeat while the cover gets smaller. Our own formulation works on the point-by-point
 // specification (n ≤ 20 variables) with a count of the terms covering each point, instead of
-// espresso's cube-list complements; it finds a prime and irredundant cover, not always a
+// the book's cube-list complements; it finds a prime and irredundant cover, not always a
 // minimum one.
 import { coverSize, DC, forEachPoint, everyPoint, fullMask, literalCount, OFF, ON, type Cube, type Spec } from "./cube.js";
 
@@ -74,7 +74,7 @@ export function minimizeHeuristic(spec: Spec, n: number, opts: { maxIterations?:
 
   const reduce = () => {
     const next: Cube[] = [];
-    // Largest terms first, as espresso orders REDUCE.
+    // Largest terms first, as the book orders REDUCE.
     const order = [...cover].sort((x, y) => literalCount(x) - literalCount(y));
     for (const c of order) {
       let andAll = full;

@@ -1,7 +1,7 @@
 // Two-level minimization with documented switch points:
 //   - up to EXACT_MAX_VARIABLES variables: exact (all primes, minimum cover), as long as the
 //     implicants, the primes and the cover search stay within their budgets;
-//   - beyond that, or when a budget runs out, up to HEURISTIC_MAX_VARIABLES: the espresso-style
+//   - beyond that, or when a budget runs out, up to HEURISTIC_MAX_VARIABLES: the expand / irredundant / reduce
 //     heuristic (not for hazard-free covers, which are exact or not made at all);
 //   - beyond that: no two-level form (the caller keeps the logic as written).
 // Several outputs are minimized together (shared product terms) up to
@@ -35,7 +35,7 @@ export type TwoLevelMethod = "exact" | "exact-bounded" | "heuristic";
 export interface TwoLevelResult {
   cover: Cube[];
   /** exact: proven minimum; exact-bounded: from all primes, search stopped at its budget;
-   *  heuristic: espresso-style. */
+   *  heuristic: expand / irredundant / reduce. */
   method: TwoLevelMethod;
 }
 
