@@ -21,13 +21,19 @@ afterAll(async () => {
   await sim?.close?.();
 });
 
-/** Largest forced fan-out the sizing accepts (its own claim), by bisection in [lo, hi]. */
-function largestFanout(supplyVolts: number, variants: "basic" | "auto", lo: number, hi: number): number {
-  const ok = (f: number) => sizeDesign(fanoutNet(2), { supplyVolts, fanoutOverride: f, variants }).value !== undefined;
-  expect(ok(lo)).toBe(true);
+/** Largest forced fan-out the sizing accepts (its own claim), by bisection in [lo, hi]. Each
+ *  sizing is synchronous (seconds when it fails: the failure analysis searches again); the
+ *  bisection lets the event loop turn between them, since a test worker blocked for a minute
+ *  loses its link to the runner. */
+async function largestFanout(supplyVolts: number, variants: "basic" | "auto", lo: number, hi: number): Promise<number> {
+  const ok = async (f: number) => {
+    await new Promise((r) => setImmediate(r));
+    return sizeDesign(fanoutNet(2), { supplyVolts, fanoutOverride: f, variants }).value !== undefined;
+  };
+  expect(await ok(lo)).toBe(true);
   while (hi - lo > 1) {
     const m = (lo + hi) >> 1;
-    if (ok(m)) lo = m;
+    if (await ok(m)) lo = m;
     else hi = m;
   }
   return lo;
@@ -50,8 +56,8 @@ describe("every sized cell keeps its logic levels in ngspice at the corners it c
   // Forced fan-outs load every output with that many of the design's heaviest diode-AND cells.
   for (const v of [5, 12, 15]) {
     it(`${v} V supply, fan-outs 1 to the sizing's largest`, async () => {
-      const basicMax = largestFanout(v, "basic", 1, 200);
-      const autoMax = largestFanout(v, "auto", basicMax + 1, 1000);
+      const basicMax = await largestFanout(v, "basic", 1, 200);
+      const autoMax = await largestFanout(v, "auto", basicMax + 1, 1000);
       const cases: [number, "basic" | "auto"][] = [
         ...[...new Set([1, Math.ceil(basicMax / 2), basicMax])].map((f) => [f, "basic"] as [number, "basic"]),
         [basicMax + 1, "auto"],
