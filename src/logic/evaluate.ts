@@ -113,7 +113,8 @@ export function simulateWords(
 
 export type Tri = 0 | 1 | "X";
 
-function evalTri(op: LogicOp, a: Tri[]): Tri {
+/** One node's three-valued value from its fanins' (X where an input decides nothing). */
+export function evalTri(op: LogicOp, a: Tri[]): Tri {
   switch (op) {
     case "const0":
       return 0;

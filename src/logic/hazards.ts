@@ -8,7 +8,7 @@
 // common practice).
 import type { LogicGraph, LogicOp } from "./graph.js";
 import { evaluationOrder } from "./loops.js";
-import type { Tri } from "./evaluate.js";
+import { evalTri, type Tri } from "./evaluate.js";
 
 /** Largest support of one cone checked (2^n vectors, n variables each). */
 export const MAX_HAZARD_SUPPORT = 14;
@@ -31,45 +31,6 @@ export interface HazardReport {
   hazards: StaticHazard[];
   /** Signals whose cones were too large to check. */
   skipped: string[];
-}
-
-function tri(op: LogicOp, a: Tri[]): Tri {
-  switch (op) {
-    case "const0":
-      return 0;
-    case "const1":
-      return 1;
-    case "buf":
-      return a[0]!;
-    case "not":
-      return a[0] === "X" ? "X" : a[0] === 1 ? 0 : 1;
-    case "and": {
-      let x = false;
-      for (const v of a) {
-        if (v === 0) return 0;
-        if (v === "X") x = true;
-      }
-      return x ? "X" : 1;
-    }
-    case "or": {
-      let x = false;
-      for (const v of a) {
-        if (v === 1) return 1;
-        if (v === "X") x = true;
-      }
-      return x ? "X" : 0;
-    }
-    case "xor": {
-      let r = 0;
-      for (const v of a) {
-        if (v === "X") return "X";
-        r ^= v;
-      }
-      return r as 0 | 1;
-    }
-    case "input":
-      return "X";
-  }
 }
 
 /**
@@ -126,10 +87,10 @@ export function findStaticHazards(g: LogicGraph, signals: readonly string[], bou
       vars.forEach((v, i) => (values[v] = assign(i)));
       for (const id of coneOrder) {
         const n = g.nodes[id]!;
-        values[id] = tri(n.op, n.fanins.map((f) => values[f]!));
+        values[id] = evalTri(n.op, n.fanins.map((f) => values[f]!));
       }
       const r = g.nodes[root]!;
-      return tri(r.op, r.fanins.map((f) => values[f]!));
+      return evalTri(r.op, r.fanins.map((f) => values[f]!));
     };
     const count = 2 ** vars.length;
     const f = new Uint8Array(count);

@@ -14,21 +14,10 @@ import { readDesign } from "../../src/pipeline/front.js";
 import { arrayMultiplier, carryLookaheadAdder, randomNetwork } from "./designs.js";
 import { checkEquivalence } from "../../src/logic/index.js";
 import { cellsToLogic, mapToCells } from "../../src/map/index.js";
+import { median, table } from "./format.js";
 
 const RUNS = Number(process.argv[2] ?? 3);
 
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
-}
-
-function table(head: string[], rows: (string | number)[][]): string {
-  const cells = [head, ...rows.map((r) => r.map(String))];
-  const w = head.map((_, i) => Math.max(...cells.map((r) => r[i]!.length)));
-  const line = (r: string[]) => r.map((c, i) => (i === 0 ? c.padEnd(w[i]!) : c.padStart(w[i]!))).join("  ");
-  return [line(head), w.map((x) => "-".repeat(x)).join("  "), ...cells.slice(1).map(line)].join("\n");
-}
 
 function randomSpec(n: number, seed: number): Spec {
   const rand = seededRandom(seed);

@@ -16,19 +16,8 @@ import { optimizeDesign } from "../../src/optimize/index.js";
 import { readDesign } from "../../src/pipeline/front.js";
 import { netlistOf } from "../electrical/fixtures.js";
 import { randomNetwork } from "./designs.js";
+import { median, table } from "./format.js";
 
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
-}
-
-function table(head: string[], rows: (string | number)[][]): string {
-  const cells = [head, ...rows.map((r) => r.map(String))];
-  const w = head.map((_, i) => Math.max(...cells.map((r) => r[i]!.length)));
-  const line = (r: string[]) => r.map((c, i) => (i === 0 ? c.padEnd(w[i]!) : c.padStart(w[i]!))).join("  ");
-  return [line(head), w.map((x) => "-".repeat(x)).join("  "), ...cells.slice(1).map(line)].join("\n");
-}
 
 function timeSizing(netlist: CellNetlist, options: SizingOptions, runs: number) {
   const times: number[] = [];
