@@ -63,6 +63,10 @@ export interface OutputLoad {
   orClampVolts: number;
   /** Load capacitance on the output node (inputs plus wiring). */
   capacitanceFarads: number;
+  /** The part of capacitanceFarads that is diode-AND load inputs counted at their zero-bias
+   *  junction capacitance (CJO). On the falling edge those diodes are reverse-biased by the
+   *  output's swing above the loads' input node, where the timing takes their mean capacitance. */
+  andDiodeFarads?: number;
   /** Charge the output must take from speed-up capacitors of diode-AND loads as it falls (the
    *  loads' input nodes swing down through their capacitors). */
   speedUpChargeCoulombs?: number;

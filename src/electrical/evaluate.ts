@@ -118,6 +118,9 @@ function loadFor(ctx: EvalContext, s: Situation, def: CellDefinition, values: Ce
     capacitanceFarads: s.loadPins * (cjo + ctx.opts.wiringCapacitancePerLoadFarads) + Math.max(s.andLoads + s.orLoads - s.loadPins, 0) * ctx.opts.wiringCapacitancePerLoadFarads,
   };
   if (s.tiedCollectors > 0) load.tiedCollectors = s.tiedCollectors;
+  // Diode-OR loads conduct while the output is high; only diode-AND loads' input diodes are
+  // reverse-biased across the fall, so the split is made when the loads are all diode-AND.
+  if (s.orLoads === 0 && cjo > 0) load.andDiodeFarads = s.loadPins * cjo;
   if (ctx.loadSpeedUp) {
     const su = ctx.loadSpeedUp(s, env);
     load.capacitanceFarads += su.farads;

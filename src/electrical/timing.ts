@@ -227,17 +227,19 @@ export function cellTiming(t: TimingInputs): CellTiming {
   const js = su?.clamp ? junctionOf(t.schottky ?? DEFAULT_SCHOTTKY_MODEL.params, "CJO", "VJ", "M", 0.35, 0.35) : undefined;
 
   // --- Output falling -------------------------------------------------------------------
-  // Charge the base side needs to bring the output to 50 %: the input node up to its on level
-  // (diode-AND cells), the emitter junction to V_BE, the collector junction's Miller charge over
-  // the swing, and the base charge τ_F·I_C behind the collector current.
+  // Charge the base side needs before the output moves: the input node up to its on level
+  // (diode-AND cells), the emitter junction to V_BE, and the base charge τ_F·I_C behind the
+  // collector current that holds the static load. The output's fall itself (load discharge
+  // against the Miller current) is loadDischargeSeconds below.
   let qNode = 0;
   let qKick = 0;
   let tNode = 0;
+  const cMiller = jc.mean(vBE - vOH, vBE - v50) + (js ? js.mean(vBE - vOH, vBE - v50) : 0);
+  const qMiller = cMiller * (vOH - v50);
+  let followerLag: { v0: number; rX: number; tau: number } | undefined;
   let qBase = je.charge(0, d.vBECutInVolts) +
     je.mean(0, d.vBECutInVolts) * (vBE - d.vBECutInVolts) +
-    jc.charge(vBE - vOH, vBE - v50) +
     tf * iCs;
-  if (js) qBase += js.charge(vBE - vOH, vBE - v50);
   if (andInput) {
     // Node capacitance: the other input diodes, and the level-shift diodes (or the follower).
     const cOthers = (t.fanin - 1) * jd.mean(-(vOH - vPLow), -(vOH - vPOn));
@@ -247,14 +249,15 @@ export function cellTiming(t: TimingInputs): CellTiming {
       // The follower's base (the input node) is raised by the pull-up alone, charging the other
       // input diodes and the follower's junctions; once it conducts, its emitter current drives
       // the output transistor.
-      const cFollower =
-        je.mean(0, d.vBECutInVolts) +
-        jc.mean(vPLow - vcc, vPOn - vcc);
-      qNode = (cOthers + cFollower) * Math.max(0, vPOn - vPLow);
+      // The follower's emitter junction is bootstrapped: the emitter follows the base up from
+      // below cut-in, so the junction takes only its charge from cut-in to V_BE, not the node's
+      // whole swing. Its collector junction rides up with the collector node, which only R_X
+      // ties to the supply (its discharge is the follower's lag below).
+      qNode = cOthers * Math.max(0, vPOn - vPLow) + je.mean(d.vBECutInVolts, vBE) * Math.max(0, vBE - d.vBECutInVolts);
       if (cSu > 0) {
         // A speed-up capacitor ties the follower's base to the output transistor's base: until
         // it has charged by its off-to-on change, the base is fed through it by the pull-up alone.
-        const qVia = Math.min(qBase, cSu * Math.max(0, vPOn - d.vBESatVolts - vPLow));
+        const qVia = Math.min(qBase + qMiller, cSu * Math.max(0, vPOn - d.vBESatVolts - vPLow));
         qNode += qVia;
         qBase -= qVia;
       }
@@ -262,13 +265,29 @@ export function cellTiming(t: TimingInputs): CellTiming {
       const iNode = Math.max(vcc - (vPLow + vPOn) / 2, 1e-3) / rPull;
       tNode = Math.max(0, qNode - qKick) / iNode;
       qKick = Math.max(0, qKick - qNode);
+      // The follower's lag. With the input low its collector node x sits high (R_X and the pull-up
+      // divide the supply); the kick's charge, passed through the follower's collector junction,
+      // collapses V_CB at once by q/C_jc, to V_0. The rest of V_CB then drains only as fast as the
+      // pull-up's current can discharge that junction (the follower's own Miller effect): V_CB
+      // decays with τ_x = R_P·C_jc, and the drive into the output falls V_CB/R_X short of the
+      // static figure meanwhile.
+      const keys = def.timingHints.nodePullUpKeys;
+      if (keys.length > 1) {
+        const rX = values[keys[0]!] ?? 0;
+        const rPb = values[keys[keys.length - 1]!] ?? 0;
+        const vXOff = vcc - (rX * (vcc - vPLow)) / rPull;
+        const vcbOff = Math.max(0, vXOff - vPLow);
+        const cjf = jc.mean(-vcbOff, 0);
+        const v0 = cjf > 0 ? Math.max(0, vcbOff - qKick / cjf) : 0;
+        followerLag = { v0, rX, tau: rPb * jc.mean(-v0, 0) };
+      }
     } else {
       const cLs = nLs > 0 ? jd.mean(0, d.vDiodeCutInVolts) / nLs : 0;
       if (cSu > 0) {
         // The capacitor carries the node's charge straight into the base: the node rises only
         // by V_BE plus what the capacitor's own voltage gains, and the level-shift diodes are
         // bypassed.
-        qNode = cOthers * Math.min(Math.max(0, vPOn - vPLow), vBE + qBase / cSu);
+        qNode = cOthers * Math.min(Math.max(0, vPOn - vPLow), vBE + (qBase + qMiller) / cSu);
       } else qNode = (cOthers + cLs) * Math.max(0, vPOn - vPLow);
       qBase += qNode;
     }
@@ -292,20 +311,33 @@ export function cellTiming(t: TimingInputs): CellTiming {
     const rs = t.drive.orSourceOhms;
     if (vCond > vIn50 && Number.isFinite(rs) && vcc > vCond) tNode = rs * cIn * Math.log((vcc - vIn50) / (vcc - vCond));
   }
-  // The kick arrives as the stepped diode recovers, within about its transit time.
-  const tBase = Math.max(andInput && qKick > 0 ? ttd * Math.LN2 : 0, Math.max(0, qBase - qKick) / iB1);
+  // The kick (the stepped input diode's stored and depletion charge) arrives during the input's
+  // edge: ngspice shows the base current peak within the edge, not a transit time later. What it
+  // brings beyond the turn-on charge (also a negative qBase: charge a speed-up capacitor
+  // delivered early) is base charge the output's fall starts with.
+  const tBase = Math.max(0, qBase - qKick) / iB1;
+  const qHead = Math.max(0, qKick - qBase);
   // Speed-up capacitors of diode-AND loads: their charge is sunk as the output falls.
   const qLoadSu = load.speedUpChargeCoulombs ?? 0;
-  // The collector must also discharge the load capacitance, with what the base drive allows.
   const sinkExcess = Math.max(betaOn * iB1 - iCs / 2, 1e-30);
-  const tLoadFall = ((load.capacitanceFarads + cTiedFall) * (vOH - v50) + qLoadSu) / sinkExcess;
   const tTurnOn = turnOnTimeSeconds(betaOn * tf, iB1, iCs, betaOn);
-  // Charge control of the load's discharge: the collector current that discharges C_L at the
-  // Miller-limited slew I_B1/C_μ needs base charge τ_F·C_L·I_B1/C_μ first, which I_B1 builds in
-  // τ_F·C_L/C_μ.
-  const cMiller = jc.mean(vBE - vOH, vBE - v50) + (js ? js.mean(vBE - vOH, vBE - v50) : 0);
-  const tLoadRamp = cMiller > 0 ? (tf * (load.capacitanceFarads + cTiedFall)) / cMiller : 0;
-  const tPHL = tNode + tBase + tLoadFall + tLoadRamp;
+  // Diode-AND loads' input diodes, reverse-biased from V_OH − V_P down to V_50 − V_P (V_P: the
+  // load's input node with its other inputs high, the larger capacitance).
+  const cAndDiodes = load.andDiodeFarads ?? 0;
+  const cAndDiodesFall = cAndDiodes > 0 && jd.cj0 > 0 ? (cAndDiodes / jd.cj0) * jd.mean(vPOn - vOH, vPOn - v50) : cAndDiodes;
+  const cFall = load.capacitanceFarads - cAndDiodes + cAndDiodesFall + cTiedFall;
+  let tLoad = loadDischargeSeconds(cFall * (vOH - v50) + qLoadSu, cFall, cMiller, qMiller, tf, iB1, sinkExcess, qHead);
+  // A follower's drive, short of its static value by V_CB(t)/R_X: the fall is worked out again
+  // with the mean drive over its own duration (three rounds settle it).
+  if (followerLag && followerLag.v0 > 0 && followerLag.rX > 0 && followerLag.tau > 0) {
+    for (let k = 0; k < 3; k++) {
+      const T = Math.max(tLoad, 1e-12);
+      const deficit = (followerLag.v0 / followerLag.rX) * (followerLag.tau / T) * -Math.expm1(-T / followerLag.tau);
+      const iB1Fall = Math.max(iB1 - deficit, iB1 * 0.1);
+      tLoad = loadDischargeSeconds(cFall * (vOH - v50) + qLoadSu, cFall, cMiller, qMiller, tf, iB1Fall, Math.max(betaOn * iB1Fall - iCs / 2, 1e-30), qHead);
+    }
+  }
+  const tPHL = tNode + tBase + tLoad;
 
   // --- Output rising --------------------------------------------------------------------
   // Reverse base current through R_B while the transistor is still on.
@@ -351,4 +383,60 @@ export function cellTiming(t: TimingInputs): CellTiming {
     tRiseSeconds: tRise,
     loadCapacitanceFarads: load.capacitanceFarads + cTiedRise,
   };
+}
+
+/**
+ * Time for the output to fall to 50 % once the transistor conducts (charge control). Beyond the
+ * current that holds the static load, the collector current i discharges the load C_L (charge
+ * `qLoad`, with any charge the loads' own capacitors sink), while the base current I_B1 both
+ * builds the charge τ_F·i behind it and feeds the Miller current C_μ·|dv/dt| = (C_μ/C_L)·i:
+ *   τ_F·di/dt = I_B1 − (C_μ/C_L)·i,  i(0) = qHead/τ_F (base charge the input's edge delivered
+ *   early),
+ * so i moves towards i_∞ = I_B1·C_L/C_μ with the time constant τ = τ_F·C_L/C_μ, and no further
+ * than the gain allows (iMax = β·I_B1 less the static load). The charge delivered by time t is
+ *   Q(t) = i_∞·t + (i(0) − i_∞)·τ·(1 − e^(−t/τ)).
+ * Slow base drive gives the Miller-limited slew C_μ·ΔV/I_B1 plus the build-up τ; fast drive
+ * gives the ramp √(2·τ_F·Q/I_B1). Without a collector junction the current rises at I_B1/τ_F
+ * to iMax. (Charge-control model after Beaufoy and Sparkes, 1957, as in Millman & Halkias ch. 15;
+ * the Miller term is the collector junction's share of the base current.)
+ */
+export function loadDischargeSeconds(
+  qLoad: number,
+  cLoad: number,
+  cMiller: number,
+  qMiller: number,
+  tf: number,
+  iB1: number,
+  iMax: number,
+  qHead = 0,
+): number {
+  if (!(tf > 0)) return qLoad / iMax + Math.max(0, qMiller - qHead) / iB1;
+  const i0 = Math.min(qHead / tf, iMax);
+  if (!(qLoad > 0)) return 0;
+  if (!(cMiller > 0) || !(cLoad > 0)) {
+    // Linear ramp from i0 at I_B1/τ_F up to iMax.
+    const slope = iB1 / tf;
+    const tCap = (iMax - i0) / slope;
+    const qCap = i0 * tCap + (slope * tCap * tCap) / 2;
+    if (qLoad >= qCap) return tCap + (qLoad - qCap) / iMax;
+    return (-i0 + Math.sqrt(i0 * i0 + 2 * slope * qLoad)) / slope;
+  }
+  const tau = (tf * cLoad) / cMiller;
+  const iInf = (iB1 * cLoad) / cMiller;
+  const charge = (t: number): number => iInf * t + (i0 - iInf) * tau * -Math.expm1(-t / tau);
+  // Time at which the current reaches iMax, if it does.
+  const tCap = iInf > iMax && i0 < iMax ? -tau * Math.log((iInf - iMax) / (iInf - i0)) : i0 >= iMax ? 0 : Infinity;
+  if (Number.isFinite(tCap)) {
+    const qCap = charge(tCap);
+    if (qLoad >= qCap) return tCap + (qLoad - qCap) / iMax;
+  }
+  // Q(t) is increasing and, with i(0) ≥ 0, at least i_∞·(t − τ): bisect on [0, q/i_∞ + τ].
+  let lo = 0;
+  let hi = Math.min(tCap, qLoad / iInf + tau);
+  for (let k = 0; k < 60 && hi - lo > 1e-6 * hi; k++) {
+    const mid = (lo + hi) / 2;
+    if (charge(mid) < qLoad) lo = mid;
+    else hi = mid;
+  }
+  return (lo + hi) / 2;
 }

@@ -1,5 +1,5 @@
-// Shared by the fast-cell checks: one cell under test built from its own topology data, driven
-// by a fast input edge (a voltage step for diode-AND inputs, a switched DTL pull-up for diode-OR
+// Shared by the switching-time checks (basic and fast cells): one cell under test built from its
+// own topology data, driven by a fast input edge (a voltage step for diode-AND inputs, a switched DTL pull-up for diode-OR
 // inputs), with real NAND loads and 3 pF wiring each, run in the embedded ngspice
 // (eecircuit-engine), and the analytic estimate at the same conditions.
 import { Simulation } from "eecircuit-engine";
@@ -60,9 +60,16 @@ export interface Case {
   rs?: number;
 }
 
-/** Transient of one case: levels and t_PHL/t_PLH at 50 % of each swing. */
+/** Transient of one case: levels and t_PHL/t_PLH at 50 % of each swing. The input is held
+ *  high, then low, for `holdSeconds` each (at least 1 µs; at least three times the estimated
+ *  t_PLH, so the output has settled where its levels are read: a slow cell read too early gives
+ *  a high level short of its final value, and so a wrong 50 % point on both edges). */
 export async function simulate(ng: Ngspice, c: Case, tempC = 27): Promise<{ tPHL: number; tPLH: number; vOL: number; vOH: number }> {
   const { def, values, vcc, loads } = c;
+  const hold = Math.max(1e-6, Math.ceil((3 * analytic(c).tPLHSeconds) / 1e-7) * 1e-7);
+  const us = (s: number): string => `${(s * 1e6).toFixed(3)}u`;
+  const tDown = 200e-9 + hold;
+  const tEnd = tDown + 1.8 * hold;
   const head = [
     "fast cell timing check",
     card(d.diode),
@@ -75,13 +82,15 @@ export async function simulate(ng: Ngspice, c: Case, tempC = 27): Promise<{ tPHL
     `.options TEMP=${tempC} TNOM=27`,
   ];
   if (def.inputKind === "and") {
-    head.push(`VIN in 0 PWL(0 0.2 200n 0.2 201n ${vcc} 1.2u ${vcc} 1.201u 0.2 3u 0.2)`, "XD in vcc out vcc dut");
+    head.push(`VIN in 0 PWL(0 0.2 200n 0.2 201n ${vcc} ${us(tDown)} ${vcc} ${us(tDown + 1e-9)} 0.2 ${us(tEnd)} 0.2)`, "XD in vcc out vcc dut");
   } else {
-    head.push("VC ctl 0 PWL(0 5 200n 5 201n 0 1.2u 0 1.201u 5 3u 5)", `RS vcc in ${c.rs}`, "S1 in 0 ctl 0 GWSW", "XD in 0 out vcc dut");
+    head.push(`VC ctl 0 PWL(0 5 200n 5 201n 0 ${us(tDown)} 0 ${us(tDown + 1e-9)} 5 ${us(tEnd)} 5)`, `RS vcc in ${c.rs}`, "S1 in 0 ctl 0 GWSW", "XD in 0 out vcc dut");
   }
   for (let i = 0; i < loads; i++) head.push(`XL${i} out vcc y${i} vcc load`, `CW${i} out 0 3p`);
   if (c.extraFarads) head.push(`CX out 0 ${c.extraFarads}`);
-  head.push(".tran 0.2n 3u", ".meas tran vol FIND v(out) AT=1.1u", ".meas tran voh FIND v(out) AT=2.9u", ".meas tran vil FIND v(in) AT=2.9u", ".meas tran vih FIND v(in) AT=1.1u");
+  const tLow = us(tDown - 100e-9);
+  const tHigh = us(tEnd - 100e-9);
+  head.push(`.tran 0.2n ${us(tEnd)}`, `.meas tran vol FIND v(out) AT=${tLow}`, `.meas tran voh FIND v(out) AT=${tHigh}`, `.meas tran vil FIND v(in) AT=${tHigh}`, `.meas tran vih FIND v(in) AT=${tLow}`);
   const base = head.join("\n");
   const levels = await ng.measures(`${base}\n.end`);
   const mid = (levels.vol! + levels.voh!) / 2;
@@ -108,6 +117,8 @@ export function analytic(c: Case): CellTiming {
     andSinkAmps: loads * nandInputLowAmps(env, LOAD_RP),
     orLoads: 0,
     orClampVolts: clamp,
+    // As the engine counts them (src/electrical/evaluate.ts): the loads' input diodes at CJO.
+    andDiodeFarads: loads * (d.diode.params.CJO ?? 0),
     capacitanceFarads: loads * ((d.diode.params.CJO ?? 0) + 3e-12) + (c.extraFarads ?? 0),
   };
   const drive: InputDrive =

@@ -3,6 +3,7 @@
 import { describe, expect, it } from "vitest";
 import {
   fallTimeSeconds,
+  loadDischargeSeconds,
   meanJunctionCapacitanceFarads,
   storageTimeConstantSeconds,
   storageTimeSeconds,
@@ -36,5 +37,37 @@ describe("charge control", () => {
     const c = meanJunctionCapacitanceFarads(2e-12, 0.75, 0.33, -5, 0);
     expect(c).toBeLessThan(2e-12);
     expect(c).toBeGreaterThan(2e-12 / (1 + 5 / 0.75) ** 0.33);
+  });
+});
+
+// The output's fall under charge control with the Miller current (loadDischargeSeconds): the
+// limits of τ_F·di/dt = I_B1 − (C_μ/C_L)·i, worked by hand from the charge-control equation
+// (Millman & Halkias, Integrated Electronics, ch. 15, charge-control description of switching).
+describe("load discharge against the Miller current", () => {
+  const tf = 0.3e-9;
+  it("no collector junction: a ramp at I_B1/τ_F, t = √(2·τ_F·Q/I_B1)", () => {
+    // 1 mA of base drive, 100 pC to take off the load: √(2 · 0.3 ns · 100 pC / 1 mA) = 7.75 ns.
+    expect(loadDischargeSeconds(100e-12, 20e-12, 0, 0, tf, 1e-3, 1)).toBeCloseTo(Math.sqrt((2 * tf * 100e-12) / 1e-3), 12);
+  });
+  it("the ramp stops at the gain's limit and the rest goes at that current", () => {
+    // iMax 5 mA reached after 5 mA·τ_F/I_B1 = 1.5 ns, having moved 3.75 pC; 96.25 pC at 5 mA more.
+    expect(loadDischargeSeconds(100e-12, 20e-12, 0, 0, tf, 1e-3, 5e-3)).toBeCloseTo(1.5e-9 + 96.25e-12 / 5e-3, 12);
+  });
+  it("slow drive: the Miller-limited slew C_μ·ΔV/I_B1 plus the build-up τ_F·C_L/C_μ", () => {
+    // C_L 20 pF, C_μ 1 pF, ΔV 5 V: q = 100 pC, i_∞ = 20 mA, τ = 6 ns; t ≫ τ gives 5 ns + 6 ns.
+    // Q(t) = i_∞·t − i_∞·τ·(1 − e^(−t/τ)); at t = 11 ns: 220 pC − 120·(1 − e^(−11/6)) pC.
+    const t = loadDischargeSeconds(100e-12, 20e-12, 1e-12, 5e-12, tf, 1e-3, 1);
+    const q = (x: number) => 20e-3 * x - 20e-3 * 6e-9 * (1 - Math.exp(-x / 6e-9));
+    expect(q(t)).toBeCloseTo(100e-12, 15);
+    expect(t).toBeGreaterThan(5e-9 + 6e-9 * (1 - Math.exp(-t / 6e-9)) - 1e-12);
+    expect(t).toBeLessThan(11e-9);
+  });
+  it("charge already in the base starts the current and shortens the fall", () => {
+    const cold = loadDischargeSeconds(100e-12, 20e-12, 1e-12, 5e-12, tf, 1e-3, 1);
+    const warm = loadDischargeSeconds(100e-12, 20e-12, 1e-12, 5e-12, tf, 1e-3, 1, 3e-12);
+    expect(warm).toBeLessThan(cold);
+    // i(0) = 3 pC / 0.3 ns = 10 mA, half of i_∞: Q(t) = i_∞·t − 10 mA·τ·(1 − e^(−t/τ)).
+    const q = (x: number) => 20e-3 * x - 10e-3 * 6e-9 * (1 - Math.exp(-x / 6e-9));
+    expect(q(warm)).toBeCloseTo(100e-12, 15);
   });
 });
