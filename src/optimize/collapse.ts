@@ -384,6 +384,9 @@ function formGraph(form: Form | readonly Form[], leafCount: number): LogicGraph 
  *  graph of its variables), and only the cheapest is priced in the whole graph. */
 export const LOCAL_PRICING_NODES = 1500;
 
+/** Region candidates priced per node of the graph (each on a small graph of its own). */
+export const REGION_EVALUATIONS_PER_NODE = 0.5;
+
 function collapseRegions(g: LogicGraph, ctx: CollapseOptions): LogicGraph {
   const L = limitsOf(ctx);
   const cost = costOf(ctx);
@@ -404,6 +407,9 @@ function collapseRegions(g: LogicGraph, ctx: CollapseOptions): LogicGraph {
   const accepted = new Map<number, Replacement>();
   let evaluations = 0;
   let skipped = 0;
+  // Each region is priced on its own (a graph of a few nodes), so the budget grows with the
+  // design rather than being the whole-graph pricing budget.
+  const budget = Math.max(L.maxEvaluations, Math.ceil(REGION_EVALUATIONS_PER_NODE * g.nodes.length));
   for (const r of stops) {
     if (inState[r]) continue;
     const leaves = supportOf(f, r, stops, L.regionMaxVariables);
@@ -424,7 +430,7 @@ function collapseRegions(g: LogicGraph, ctx: CollapseOptions): LogicGraph {
       for (const each of g.nodes[id]!.fanins) stack.push(each);
     }
     if (inner < 2) continue;
-    if (evaluations >= L.maxEvaluations) break;
+    if (evaluations >= budget) break;
     const sim = simulateOver(f, leaves, [r]);
     const spec = specOfWords(sim.values[r]!, leaves.length);
     const old = regionGraph(f, r, leaves);
@@ -442,7 +448,7 @@ function collapseRegions(g: LogicGraph, ctx: CollapseOptions): LogicGraph {
     if (bestForm) accepted.set(r, { form: bestForm, leaves });
   }
   if (skipped) note(ctx, { kind: "limit", pass: "collapse", message: `${skipped} region${skipped > 1 ? "s" : ""} of more than ${L.regionMaxVariables} variables kept as written` });
-  if (evaluations >= L.maxEvaluations) note(ctx, { kind: "limit", pass: "collapse", message: `evaluation budget (${L.maxEvaluations}) reached while minimizing regions` });
+  if (evaluations >= budget) note(ctx, { kind: "limit", pass: "collapse", message: `evaluation budget (${budget}) reached while minimizing regions` });
   if (accepted.size === 0) return g;
   return rebuildWith(g, ctx.stateNames, accepted);
 }

@@ -47,8 +47,10 @@ export interface OptimizeOptions {
   /** Wired-AND outputs in the mapping (default off). */
   wiredAnd?: boolean;
   limits?: Partial<OptimizeLimits>;
-  /** Nodes above which the large-design way is taken (default LARGE_DESIGN_NODES). */
+  /** Nodes above which passes are priced by a structural estimate (default LARGE_DESIGN_NODES). */
   largeDesignNodes?: number;
+  /** Work one pass may spend pricing candidates in the whole graph (default WORK_PER_PASS). */
+  workPerPass?: number;
 }
 
 export interface OptimizeResult {
@@ -65,9 +67,11 @@ const MAX_NOTE_DIAGNOSTICS = 12;
  *  maxEvaluations, never fewer than MIN_EVALUATIONS). Keeps large designs to seconds. */
 export const WORK_PER_PASS = 150_000;
 const MIN_EVALUATIONS = 4;
-/** Above this many nodes a design is optimized in the large-design way (see optimizeDesign):
- *  local passes only, priced by a structural estimate, the result mapped once. */
+/** Above this many nodes the passes are priced by a structural estimate instead of by mapping,
+ *  and the result is mapped once (see optimizeDesign). */
 export const LARGE_DESIGN_NODES = 50_000;
+/** Fewest whole-graph evaluations with which a searching pass is worth running. */
+export const SEARCH_MIN_EVALUATIONS = 16;
 /** Prices remembered per run (a candidate graph met twice is mapped once). */
 const COST_CACHE_SIZE = 2000;
 
@@ -134,24 +138,33 @@ export function optimizeDesign(g: LogicGraph, opts: OptimizeOptions): OptimizeRe
       diagnostics.push(diag("GW3005", `the don't-cares of '${set.signal}' are not used: ${reason}; its value there stays as written`, file));
     }
   }
-  // A large design: pricing every pass by mapping the whole graph would cost more than the
-  // passes; they are priced by a structural estimate instead, only the passes whose work grows
-  // in proportion to the graph run, and the result is mapped once at the end and kept only if
-  // it is cheaper than the logic as written.
+  // Pricing. A pass's result is priced by mapping the whole graph while that is cheap; above
+  // largeDesignNodes nodes a mapping costs more than most passes, so the passes are priced by a
+  // structural estimate instead and the result is mapped once at the end and kept only if it is
+  // cheaper than the logic as written.
+  //
+  // Work. Every pass runs at every size; each bounds its own work in proportion to the graph (the
+  // sweep's proofs, the regions' minimizations, the two-level points). The passes that search
+  // candidates by pricing them in the whole graph (collapse of cones, resubstitution,
+  // extraction) may make WORK_PER_PASS / nodes evaluations; when that is fewer than
+  // SEARCH_MIN_EVALUATIONS they cannot do anything useful and are left out, with a note.
   const largeAbove = opts.largeDesignNodes ?? LARGE_DESIGN_NODES;
+  const workPerPass = opts.workPerPass ?? WORK_PER_PASS;
   const large = level >= 1 && g.nodes.length > largeAbove;
   const price = large ? (x: LogicGraph) => structuralCost(x, opts.stateNames) : cost;
   const ctx: PassContext = { stateNames: opts.stateNames, cost: price, notes, counts, dontCares: use.usable };
   const baseLimits = { ...DEFAULT_OPTIMIZE_LIMITS, ...(opts.limits ?? {}) };
-  let budgetNoted = large;
+  let budgetNoted = false;
+  const leftOut: string[] = [];
 
   let cur = g;
   let curCost = large ? price(g) : before.cost;
+  const evaluationsFor = (x: LogicGraph) => Math.max(MIN_EVALUATIONS, Math.min(baseLimits.maxEvaluations, Math.floor(workPerPass / Math.max(1, x.nodes.length))));
   const step = (pass: string, run: (x: LogicGraph) => LogicGraph, acceptEqual = false) => {
-    const evaluations = Math.max(MIN_EVALUATIONS, Math.min(baseLimits.maxEvaluations, Math.floor(WORK_PER_PASS / Math.max(1, cur.nodes.length))));
+    const evaluations = evaluationsFor(cur);
     if (evaluations < baseLimits.maxEvaluations && !budgetNoted && level === 2) {
       budgetNoted = true;
-      notes.push({ kind: "limit", pass: "optimize", message: `a large design (${cur.nodes.length} nodes): each pass prices at most ${evaluations} candidates` });
+      notes.push({ kind: "limit", pass: "optimize", message: `a large design (${cur.nodes.length} nodes): each pass prices at most ${evaluations} candidates in the whole graph` });
     }
     ctx.limits = { ...baseLimits, maxEvaluations: evaluations };
     const next = run(cur);
@@ -167,25 +180,36 @@ export function optimizeDesign(g: LogicGraph, opts: OptimizeOptions): OptimizeRe
       curCost = c;
     }
   };
+  /** A pass that searches by whole-graph pricing: run only when it can afford a useful search. */
+  const search = (pass: string, run: (x: LogicGraph) => LogicGraph) => {
+    if (evaluationsFor(cur) < Math.min(SEARCH_MIN_EVALUATIONS, baseLimits.maxEvaluations)) {
+      leftOut.push(pass);
+      return;
+    }
+    step(pass, run);
+  };
   const sn = opts.stateNames;
   if (level >= 1) {
     step("simplify", (x) => simplifyLogic(x, sn), true);
     step("inverters", (x) => minimizeInverters(x, ctx));
     step("flatten", (x) => simplifyLogic(flattenTrees(x, sn, opts.maxFanin), sn), true);
   }
-  if (level >= 2 && large) {
+  if (level >= 2) {
     step("sweep", (x) => sweepEquivalent(x, ctx));
-    step("collapse regions", (x) => collapseTwoLevel(x, { ...ctx, mode: "regions" }));
-    step("flatten", (x) => simplifyLogic(flattenTrees(x, sn, opts.maxFanin), sn), true);
-  } else if (level >= 2) {
-    step("sweep", (x) => sweepEquivalent(x, ctx));
-    step("collapse", (x) => collapseTwoLevel(x, ctx));
+    search("collapse", (x) => collapseTwoLevel(x, ctx));
     step("collapse regions", (x) => collapseTwoLevel(x, { ...ctx, mode: "regions" }));
     step("xor-expand", (x) => expandXors(x, ctx), true);
-    step("resubstitute", (x) => resubstitute(x, ctx));
-    step("extract", (x) => extractCommon(x, ctx));
+    search("resubstitute", (x) => resubstitute(x, ctx));
+    search("extract", (x) => extractCommon(x, ctx));
     step("factor", (x) => factorNodes(x, ctx));
     step("flatten", (x) => simplifyLogic(flattenTrees(x, sn, opts.maxFanin), sn), true);
+  }
+  if (leftOut.length) {
+    notes.push({
+      kind: "limit",
+      pass: "optimize",
+      message: `a large design (${cur.nodes.length} nodes): ${leftOut.join(", ")} left out (each could price fewer than ${SEARCH_MIN_EVALUATIONS} candidates in the whole graph); the local passes ran in full`,
+    });
   }
   let after = level === 0 ? before : tallyOf(cur);
   if (large) {
@@ -198,8 +222,7 @@ export function optimizeDesign(g: LogicGraph, opts: OptimizeOptions): OptimizeRe
       kind: "heuristic",
       pass: "optimize",
       message:
-        `a large design (${g.nodes.length} nodes, more than ${largeAbove}): the passes were priced by a structural estimate of the parts instead of by mapping, ` +
-        `and only ${level >= 2 ? "simplify, inverters, flatten, sweep and collapse regions" : "simplify, inverters and flatten"} ran (not two-level collapse of whole cones, XOR expansion, resubstitution, extraction or factoring); ` +
+        `a large design (${g.nodes.length} nodes, more than ${largeAbove}): the passes were priced by a structural estimate of the parts instead of by mapping; ` +
         `the result was mapped once and ${kept ? "kept: it costs no more than the logic as written" : "dropped: it cost more than the logic as written"}`,
     });
   }

@@ -139,7 +139,8 @@ export function simulateOver(f: GraphFacts, vars: readonly number[], roots: read
   for (const [id, w] of forced) if (needed.has(id)) buf.set(w, slotOf[id]! * words);
   runWordProgram(program, buf, words);
   for (const id of order) freeVar[id] = -1;
-  const values: (Uint32Array | undefined)[] = new Array(f.g.nodes.length);
+  // Indexed by node id but filled only for the cone (a sparse array: no work per graph node).
+  const values: (Uint32Array | undefined)[] = [];
   order.forEach((id, k) => (values[id] = buf.subarray(k * words, (k + 1) * words)));
   return { words, values };
 }

@@ -1,6 +1,7 @@
 // The large-design way of the optimizer (src/optimize/index.ts): above a node count the passes
-// are priced by a structural estimate, only the local passes run, and the result is mapped once
-// and kept only if it costs no more than the logic as written. Checked here with the threshold
+// are priced by a structural estimate and the result is mapped once and kept only if it costs no
+// more than the logic as written; the passes that search by whole-graph pricing are left out
+// when their work budget allows too few evaluations. Checked here with the threshold
 // lowered, on a generated random network: the optimized logic computes the source's logic (the
 // equivalence check, itself checked against vector-by-vector evaluation in
 // test/logic/equivalence.test.ts), it is no dearer than the logic as written, and the report
@@ -22,13 +23,21 @@ describe("large designs", () => {
   const g = network(150);
   const opts = { stateNames: [], maxFanin: 8, cells: "mixed" as const, costModel: dtlCostModel(), wiredAnd: false };
 
-  it("above the threshold: local passes priced structurally, the result mapped once, no dearer, and said so", () => {
+  it("above the threshold: every pass priced structurally, the result mapped once, no dearer, and said so", () => {
     const r = optimizeDesign(g, { ...opts, largeDesignNodes: 100 });
     expect(g.nodes.length).toBeGreaterThan(100);
     expect(r.report.after.cost).toBeLessThanOrEqual(r.report.before.cost);
-    expect(r.report.passes.map((p) => p.pass)).toEqual(["simplify", "inverters", "flatten", "sweep", "collapse regions", "flatten"]);
+    expect(r.report.passes.map((p) => p.pass)).toContain("resubstitute");
     const note = r.report.notes.find((n) => n.kind === "heuristic" && n.pass === "optimize");
     expect(note?.message).toMatch(/^a large design \(\d+ nodes, more than 100\): the passes were priced by a structural estimate/);
+    expect(checkEquivalence(g, r.graph, { stateNames: [] }).equivalent).toBe(true);
+  });
+
+  it("too small a work budget: the searching passes are left out, the local ones run, and said so", () => {
+    const r = optimizeDesign(g, { ...opts, workPerPass: 100 });
+    expect(r.report.passes.map((p) => p.pass)).toEqual(["simplify", "inverters", "flatten", "sweep", "collapse regions", "xor-expand", "factor", "flatten"]);
+    const note = r.report.notes.find((n) => n.kind === "limit" && n.message.includes("left out"));
+    expect(note?.message).toMatch(/collapse, resubstitute, extract left out/);
     expect(checkEquivalence(g, r.graph, { stateNames: [] }).equivalent).toBe(true);
   });
 

@@ -91,6 +91,20 @@ describe("what each pass does (worked by hand)", () => {
     expect(s.nodes[s.outputs[0]!.node]!.op).toBe("input");
   });
 
+  it("sweep, many variables: a constant found first folds its readers, which are then merged in the same pass", () => {
+    // 22 inputs, more than sweepMaxVariables: the random-vector way. k = (a & b) & (a & !b) is 0
+    // (Boolean algebra, common practice) over {a, b}; q = (k & w) | (x & y) | (x & !y), with w an
+    // AND of 18 inputs, is x, but over all 22 variables it cannot be compared exhaustively:
+    // only once k has been replaced by 0 (and k & w folded away) is q over {x, y}.
+    const wide = Array.from({ length: 18 }, (_, i) => `i${i}`);
+    const { g } = graphOf(
+      `input a, b, x, y, ${wide.join(", ")}; output q; k = (a & b) & (a & !b); w = ${wide.join(" & ")}; q = (k & w) | (x & y) | (x & !y);`,
+    );
+    const s = sweepEquivalent(g, ctx);
+    expect(s.inputs.find((p) => p.node === s.outputs[0]!.node)?.name).toBe("x");
+    expect(checkEquivalence(g, s, { stateNames: [] }).equivalent).toBe(true);
+  });
+
   it("collapse: a canonical sum becomes its minimum; don't-cares of an output are used", () => {
     const { g } = graphOf("input a, b; output y; y(a, b) = m(1, 3);"); // y = b
     const s = collapseTwoLevel(g, ctx);
