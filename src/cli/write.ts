@@ -4,7 +4,10 @@
 //      path is a folder, and every file that exists was written by gatewright (it carries our
 //      marker in its first bytes) unless forced.
 //   2. Write each file to a temporary file next to its final place (created exclusively,
-//      flushed to disk with fsync before it is closed).
+//      flushed to disk with fsync before it is closed). A file whose text is produced in pieces
+//      (`writeTo`, see src/emit/output.ts) is written as the pieces come, so its whole text is
+//      never held at once; a producer that fails is a bug, reported as an internal error, and
+//      undone like any other failure.
 //   3. Commit: for each file, keep the previous version under a backup name (a hard link, so the
 //      final name never disappears), then rename the temporary file over the final name (an
 //      atomic replacement on POSIX file systems).
@@ -22,6 +25,9 @@ export interface OutputFile {
   /** Path relative to the output folder. */
   name: string;
   content: string;
+  /** When present, hands the text to `out` in pieces, in order; written instead of `content`
+   *  (which is then never read). */
+  writeTo?: (out: (piece: string) => void) => void;
 }
 
 /** Marker every generated text file carries in its first lines (see src/emit). */
@@ -38,7 +44,8 @@ export interface WriteFs {
   existsSync(path: string): boolean;
   openSync(path: string, flags: string): number;
   readSync(fd: number, buf: Buffer, offset: number, length: number, position: number): number;
-  writeSync(fd: number, data: string): number;
+  /** Writes `length` bytes of `data` from `offset`; returns how many it wrote. */
+  writeSync(fd: number, data: Uint8Array, offset: number, length: number): number;
   fsyncSync(fd: number): void;
   closeSync(fd: number): void;
   renameSync(from: string, to: string): void;
@@ -55,7 +62,7 @@ export const NODE_WRITE_FS: WriteFs = {
   existsSync: (p) => nodeFs.existsSync(p),
   openSync: (p, f) => nodeFs.openSync(p, f),
   readSync: (fd, b, o, l, p) => nodeFs.readSync(fd, b, o, l, p),
-  writeSync: (fd, d) => nodeFs.writeSync(fd, d),
+  writeSync: (fd, d, o, l) => nodeFs.writeSync(fd, d, o, l),
   fsyncSync: (fd) => nodeFs.fsyncSync(fd),
   closeSync: (fd) => nodeFs.closeSync(fd),
   renameSync: (a, b) => nodeFs.renameSync(a, b),
@@ -89,7 +96,8 @@ export function isGeneratedFile(path: string, fs: WriteFs = NODE_WRITE_FS): bool
 
 export interface WriteResult {
   written: string[];
-  error?: { message: string; path?: string; code: "GW8001" | "GW8002" };
+  /** GW9001: producing a file's text failed (a bug), so nothing was written. */
+  error?: { message: string; path?: string; code: "GW8001" | "GW8002" | "GW9001" };
 }
 
 export interface WriteOptions {
@@ -100,28 +108,73 @@ export interface WriteOptions {
 
 let tempCounter = 0;
 
-/** Characters handed to one write: a large file goes out in pieces, so no encoded copy of the
- *  whole text is made at once. */
-const WRITE_PIECE_CHARS = 1 << 20;
+/** Bytes of a file's text gathered before each write. The text is encoded piece by piece into
+ *  this buffer: no encoded or joined copy of a whole file is ever made. */
+const WRITE_BUFFER_BYTES = 1 << 18;
+/** UTF-16 code units that always fit the buffer (UTF-8 takes at most 3 bytes for one). */
+const UNITS_PER_BUFFER = Math.floor(WRITE_BUFFER_BYTES / 3);
 
-function writeInPieces(fs: WriteFs, fd: number, text: string): void {
-  if (text.length <= WRITE_PIECE_CHARS) {
-    fs.writeSync(fd, text);
-    return;
+/** A failure of the producer of a file's text (not of the file system). */
+class ProducerFailure extends Error {
+  constructor(
+    readonly file: string,
+    readonly failure: unknown,
+  ) {
+    super(failure instanceof Error ? failure.message : String(failure));
   }
-  for (let i = 0; i < text.length; ) {
-    let end = Math.min(text.length, i + WRITE_PIECE_CHARS);
-    // Never between the two halves of a surrogate pair.
-    const last = text.charCodeAt(end - 1);
-    if (end < text.length && last >= 0xd800 && last <= 0xdbff) end--;
-    fs.writeSync(fd, text.slice(i, end));
-    i = end;
+}
+
+/** Writes a file's text, `content` or the pieces `writeTo` produces, as UTF-8 through one
+ *  buffer. */
+function writeText(fs: WriteFs, fd: number, f: OutputFile): void {
+  const buf = Buffer.allocUnsafe(WRITE_BUFFER_BYTES);
+  let at = 0;
+  let fsFailure: unknown;
+  const flush = () => {
+    try {
+      for (let done = 0; done < at; ) {
+        const n = fs.writeSync(fd, buf, done, at - done);
+        if (!(n > 0)) throw new Error("the file system took no bytes");
+        done += n;
+      }
+    } catch (e) {
+      fsFailure = e;
+      throw e;
+    }
+    at = 0;
+  };
+  const put = (piece: string) => {
+    if (piece.length * 3 <= WRITE_BUFFER_BYTES - at) {
+      at += buf.write(piece, at);
+      return;
+    }
+    if (at > 0) flush();
+    // A long piece goes through the buffer a slice at a time, never split between the two
+    // halves of a surrogate pair.
+    for (let i = 0; i < piece.length; ) {
+      let end = Math.min(piece.length, i + UNITS_PER_BUFFER);
+      const last = piece.charCodeAt(end - 1);
+      if (end < piece.length && last >= 0xd800 && last <= 0xdbff) end--;
+      at = buf.write(i === 0 && end === piece.length ? piece : piece.slice(i, end), 0);
+      i = end;
+      if (i < piece.length) flush();
+    }
+  };
+  if (!f.writeTo) put(f.content);
+  else {
+    try {
+      f.writeTo(put);
+    } catch (e) {
+      if (fsFailure !== undefined && e === fsFailure) throw e;
+      throw new ProducerFailure(f.name, e);
+    }
   }
+  if (at > 0) flush();
 }
 
 export function writeOutputs(dir: string, files: OutputFile[], opts: WriteOptions = {}): WriteResult {
   const fs = opts.fs ?? NODE_WRITE_FS;
-  const fail = (code: "GW8001" | "GW8002", message: string, path?: string): WriteResult => ({
+  const fail = (code: "GW8001" | "GW8002" | "GW9001", message: string, path?: string): WriteResult => ({
     written: [],
     error: path !== undefined ? { code, message, path } : { code, message },
   });
@@ -182,7 +235,7 @@ export function writeOutputs(dir: string, files: OutputFile[], opts: WriteOption
       const fd = fs.openSync(temp, "wx");
       temps.push({ temp, final });
       try {
-        writeInPieces(fs, fd, f.content);
+        writeText(fs, fd, f);
         fs.fsyncSync(fd);
       } finally {
         fs.closeSync(fd);
@@ -227,6 +280,9 @@ export function writeOutputs(dir: string, files: OutputFile[], opts: WriteOption
     const outcome = notUndone.length
       ? `; could not undo the change to ${notUndone.map((f) => `'${f}'`).join(", ")} (a previous version is kept beside it as a .bak file)`
       : "; nothing was changed";
+    if (e instanceof ProducerFailure) {
+      return fail("GW9001", `internal error while making '${e.file}': ${e.message}${outcome} (this is a bug in gatewright; please report it with the input file and the command line)`);
+    }
     return fail("GW8001", `cannot write outputs in '${dir}': ${(e as Error).message}${outcome}`);
   }
   for (const b of backups.values()) silently(() => fs.rmSync(b, { force: true }));

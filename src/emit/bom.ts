@@ -1,8 +1,9 @@
 // The parts list: one line per distinct part and value, in the order parts lists usually run
 // (resistors, capacitors, diodes, transistors), with compressed designator ranges.
 import type { SizedDesign } from "../electrical/types.js";
-import { compareDesignators, designatorRanges, eng } from "./format.js";
-import { render } from "./render.js";
+import { compareDesignators, designatorRanges, eng, numberRanges } from "./format.js";
+import { csvField, renderTo } from "./render.js";
+import type { TextSink } from "./output.js";
 import { tiesOf, wiredNetsOf } from "./spice.js";
 import { generatedBy, type EmitContext } from "./context.js";
 
@@ -44,20 +45,55 @@ export function bomRows(design: SizedDesign): BomRow[] {
 }
 
 function makeBomRows(design: SizedDesign): BomRow[] {
-  type Part = { designator: string; kind: BomRow["kind"]; value: string; tolerance: string; rating: string; description: string; partNumber: string; sortValue: number };
-  const parts: Part[] = design.components.map((c) => ({
-    designator: c.designator,
-    kind: c.kind,
-    value: c.kind === "R" ? eng(c.value, "Ω") : c.kind === "C" ? eng(c.value, "F") : c.partNumber ?? c.valueText,
-    tolerance: c.tolerance !== undefined ? `±${Math.round(c.tolerance * 1000) / 10} %` : "",
-    rating: c.kind === "R" ? ratingText(c.powerRatingWatts) : c.kind === "C" ? (c.voltageRatingVolts !== undefined ? `${c.voltageRatingVolts} V` : "") : "",
-    description: c.description,
-    partNumber: c.partNumber ?? "",
-    sortValue: c.value,
-  }));
+  type Group = { kind: BomRow["kind"]; value: string; tolerance: string; rating: string; description: string; partNumber: string; sortValue: number; designators: string[] };
+  // Parts alike on the list share one line: grouped by their texts as printed. Parts with the
+  // same raw figures print alike, so each raw combination is formatted once: components are
+  // looked up by value, then among the few raw combinations seen with that value.
+  const groups = new Map<string, Group>();
+  const groupOf = (p: Omit<Group, "designators">): Group => {
+    const key = [p.kind, p.value, p.tolerance, p.rating, p.description, p.partNumber].join("\u0000");
+    let g = groups.get(key);
+    if (!g) groups.set(key, (g = { ...p, designators: [] }));
+    return g;
+  };
+  type Seen = { c: SizedDesign["components"][number]; group: Group };
+  const seenByValue = new Map<number, Seen[]>();
+  const alike = (a: SizedDesign["components"][number], b: SizedDesign["components"][number]) =>
+    a.kind === b.kind &&
+    a.valueText === b.valueText &&
+    a.partNumber === b.partNumber &&
+    a.description === b.description &&
+    Object.is(a.value, b.value) &&
+    Object.is(a.tolerance, b.tolerance) &&
+    Object.is(a.powerRatingWatts, b.powerRatingWatts) &&
+    Object.is(a.voltageRatingVolts, b.voltageRatingVolts);
+  for (const c of design.components) {
+    let seen = seenByValue.get(c.value);
+    if (!seen) seenByValue.set(c.value, (seen = []));
+    let group: Group | undefined;
+    for (const x of seen) {
+      if (alike(x.c, c)) {
+        group = x.group;
+        break;
+      }
+    }
+    if (!group) {
+      group = groupOf({
+        kind: c.kind,
+        value: c.kind === "R" ? eng(c.value, "Ω") : c.kind === "C" ? eng(c.value, "F") : c.partNumber ?? c.valueText,
+        tolerance: c.tolerance !== undefined ? `±${Math.round(c.tolerance * 1000) / 10} %` : "",
+        rating: c.kind === "R" ? ratingText(c.powerRatingWatts) : c.kind === "C" ? (c.voltageRatingVolts !== undefined ? `${c.voltageRatingVolts} V` : "") : "",
+        description: c.description,
+        partNumber: c.partNumber ?? "",
+        sortValue: c.value,
+      });
+      // Bounded: past a few raw combinations a value, each part is grouped by its texts alone.
+      if (seen.length < 16) seen.push({ c, group });
+    }
+    group.designators.push(c.designator);
+  }
   for (const t of tiesOf(design)) {
-    parts.push({
-      designator: t.designator,
+    groupOf({
       kind: "R",
       value: eng(t.ohms, "Ω"),
       tolerance: "±5 %",
@@ -65,32 +101,78 @@ function makeBomRows(design: SizedDesign): BomRow[] {
       description: `tie resistor: constant output held ${t.value ? "high" : "low"}`,
       partNumber: "",
       sortValue: t.ohms,
-    });
+    }).designators.push(t.designator);
   }
-  const groups = new Map<string, Part[]>();
-  for (const p of parts) {
-    const key = [p.kind, p.value, p.tolerance, p.rating, p.description, p.partNumber].join("\u0000");
-    if (!groups.has(key)) groups.set(key, []);
-    groups.get(key)!.push(p);
-  }
-  const rows: BomRow[] = [...groups.values()].map((ps) => {
-    const list = ps.map((p) => p.designator).sort(compareDesignators);
-    const p = ps[0]!;
+  const rows: BomRow[] = [...groups.values()].map((g) => {
+    const { list, ranges } = sortedDesignators(g.designators);
     return {
-      kind: p.kind,
-      quantity: ps.length,
-      designators: designatorRanges(list),
+      kind: g.kind,
+      quantity: list.length,
+      designators: ranges,
       designatorList: list,
-      value: p.value,
-      tolerance: p.tolerance,
-      rating: p.rating,
-      description: p.description,
-      partNumber: p.partNumber,
-      sortValue: p.sortValue,
+      value: g.value,
+      tolerance: g.tolerance,
+      rating: g.rating,
+      description: g.description,
+      partNumber: g.partNumber,
+      sortValue: g.sortValue,
     };
   });
   rows.sort((a, b) => KIND_ORDER[a.kind] - KIND_ORDER[b.kind] || a.sortValue - b.sortValue || a.description.localeCompare(b.description));
   return rows;
+}
+
+/**
+ * Designators in natural order (compareDesignators) and as compressed ranges (designatorRanges).
+ * A line's designators usually share one letter prefix and come nearly in order: they are then
+ * read once into numbers and ordered by them, which is the order compareDesignators gives.
+ */
+function sortedDesignators(list: string[]): { list: string[]; ranges: string } {
+  const n = list.length;
+  const first = list[0];
+  const prefixLength = first === undefined ? 0 : letterPrefixLength(first);
+  const prefix = first?.slice(0, prefixLength) ?? "";
+  const nums = new Float64Array(n);
+  let same = prefixLength > 0;
+  let ascending = true;
+  for (let i = 0; i < n && same; i++) {
+    const d = list[i]!;
+    const num = designatorNumber(d, prefix);
+    if (num < 0) same = false;
+    else {
+      nums[i] = num;
+      if (i > 0 && num < nums[i - 1]!) ascending = false;
+    }
+  }
+  if (!same) {
+    const sorted = [...list].sort(compareDesignators);
+    return { list: sorted, ranges: designatorRanges(sorted) };
+  }
+  if (ascending) return { list, ranges: numberRanges(prefix, nums) };
+  // A stable order by number, as Array.prototype.sort with compareDesignators gives.
+  const order = Array.from({ length: n }, (_, i) => i).sort((a, b) => nums[a]! - nums[b]! || a - b);
+  const sorted = order.map((i) => list[i]!);
+  const sortedNums = Float64Array.from(order, (i) => nums[i]!);
+  return { list: sorted, ranges: numberRanges(prefix, sortedNums) };
+}
+
+/** Length of the capital letters a designator starts with. */
+function letterPrefixLength(d: string): number {
+  let i = 0;
+  while (i < d.length && d.charCodeAt(i) >= 65 && d.charCodeAt(i) <= 90) i++;
+  return i;
+}
+
+/** The number after `prefix` when `d` is exactly `prefix` and digits (/^[A-Z]+\d+$/ with that
+ *  prefix), else -1. */
+function designatorNumber(d: string, prefix: string): number {
+  const p = prefix.length;
+  if (d.length <= p || !d.startsWith(prefix)) return -1;
+  for (let i = p; i < d.length; i++) {
+    const c = d.charCodeAt(i);
+    if (c < 48 || c > 57) return -1;
+  }
+  return Number(d.slice(p));
 }
 
 export function bomTotals(rows: BomRow[]) {
@@ -102,30 +184,55 @@ export function bomTotals(rows: BomRow[]) {
   return { parts: rows.reduce((s, r) => s + r.quantity, 0), lines: rows.length, byKindText: byKind.join(", ") };
 }
 
-export function renderBom(ctx: EmitContext, files: { netlist: string }): { markdown: string; csv: string } {
+function bomView(ctx: EmitContext, files: { netlist: string }) {
   const rows = bomRows(ctx.design);
   const supply = ctx.design.parameters.find((p) => p.name === "supplyVolts")!;
-  const view = {
+  return {
     designName: ctx.design.netlist.name,
     generatedBy: generatedBy(ctx),
     netlistFile: files.netlist,
     supplyText: eng(supply.value, "V"),
     rows,
     totals: bomTotals(rows),
-    notes: [
-      "Resistor ratings include 50 % derating at the worst-case dissipation (common practice); check them against your parts' datasheets at your highest ambient temperature.",
-      "Diode and transistor values are the generic models of the netlist unless a parts file named your own part numbers.",
-      ...(rows.some((r) => r.kind === "C")
-        ? ["Speed-up capacitors: ceramic, C0G/NP0 for a value that holds over temperature, rated at the next standard voltage at least twice the highest supply (common practice)."]
-        : []),
-      ...(ctx.design.models.schottky
-        ? [`Clamp diodes (DSC in each fast cell): small-signal Schottky, model ${ctx.design.models.schottky.partNumber ?? ctx.design.models.schottky.name}; a parts file's "schottky" entry names your own part.`]
-        : []),
-      ...wiredNetsOf(ctx.design).map(
-        (w) => `Wired-AND net ${w.name}: one collector resistor, ${w.pullUp}, for the tied outputs of U${w.driver + 1}, ${w.tied.map((c) => `U${c + 1}`).join(", ")} (the tied cells have none).`,
-      ),
-    ],
   };
-  const csv = render("bom.csv", view).replace(/\r?\n/g, "\r\n"); // RFC 4180 line breaks
-  return { markdown: render("bom.md", view), csv };
+}
+
+/** The parts list's closing notes, then one a wired-AND net. */
+function writeBomNotes(out: TextSink, ctx: EmitContext, rows: BomRow[]): void {
+  const notes = [
+    "Resistor ratings include 50 % derating at the worst-case dissipation (common practice); check them against your parts' datasheets at your highest ambient temperature.",
+    "Diode and transistor values are the generic models of the netlist unless a parts file named your own part numbers.",
+    ...(rows.some((r) => r.kind === "C")
+      ? ["Speed-up capacitors: ceramic, C0G/NP0 for a value that holds over temperature, rated at the next standard voltage at least twice the highest supply (common practice)."]
+      : []),
+    ...(ctx.design.models.schottky
+      ? [`Clamp diodes (DSC in each fast cell): small-signal Schottky, model ${ctx.design.models.schottky.partNumber ?? ctx.design.models.schottky.name}; a parts file's "schottky" entry names your own part.`]
+      : []),
+  ];
+  for (const n of notes) out(`- ${n}\n`);
+  for (const w of wiredNetsOf(ctx.design)) {
+    out(`- Wired-AND net ${w.name}: one collector resistor, ${w.pullUp}, for the tied outputs of U${w.driver + 1}, ${w.tied.map((c) => `U${c + 1}`).join(", ")} (the tied cells have none).\n`);
+  }
+}
+
+export function writeBomMarkdown(out: TextSink, ctx: EmitContext, files: { netlist: string }): void {
+  const view = bomView(ctx, files);
+  renderTo(out, "bom.md", view, {
+    rows: (o) => {
+      for (const r of view.rows) o(`| ${r.quantity} | ${r.designators} | ${r.value} | ${r.tolerance} | ${r.rating} | ${r.description} | ${r.partNumber} |\n`);
+    },
+    notes: (o) => writeBomNotes(o, ctx, view.rows),
+  });
+}
+
+/** RFC 4180 line breaks (CR LF), in every piece (a piece never ends inside one). */
+const crlf = (s: string) => s.replace(/\r?\n/g, "\r\n");
+
+export function writeBomCsv(out: TextSink, ctx: EmitContext, files: { netlist: string }): void {
+  const view = bomView(ctx, files);
+  renderTo((piece) => out(crlf(piece)), "bom.csv", view, {
+    rows: (o) => {
+      for (const r of view.rows) o(`${csvField(r.quantity)},${csvField(r.designators)},${csvField(r.value)},${csvField(r.tolerance)},${csvField(r.rating)},${csvField(r.description)},${csvField(r.partNumber)}\n`);
+    },
+  });
 }

@@ -84,15 +84,25 @@ export function designatorRanges(designators: string[]): string {
   const parts: string[] = [];
   for (const [prefix, nums] of byPrefix) {
     nums.sort((a, b) => a - b);
-    for (let i = 0; i < nums.length; ) {
-      let j = i;
-      while (j + 1 < nums.length && nums[j + 1] === nums[j]! + 1) j++;
-      if (j - i >= 2) parts.push(`${prefix}${nums[i]}-${prefix}${nums[j]}`);
-      else for (let k = i; k <= j; k++) parts.push(`${prefix}${nums[k]}`);
-      i = j + 1;
-    }
+    const text = numberRanges(prefix, nums);
+    if (text !== "") parts.push(text);
   }
-  return [...parts, ...other].join(", ");
+  for (const d of other) parts.push(d);
+  return parts.join(", ");
+}
+
+/** Ranges of designators `prefix` + n for numbers already in ascending order: "R1-R3, R5". */
+export function numberRanges(prefix: string, nums: ArrayLike<number>): string {
+  let text = "";
+  const add = (s: string) => (text = text === "" ? s : `${text}, ${s}`);
+  for (let i = 0; i < nums.length; ) {
+    let j = i;
+    while (j + 1 < nums.length && nums[j + 1] === nums[j]! + 1) j++;
+    if (j - i >= 2) add(`${prefix}${nums[i]}-${prefix}${nums[j]}`);
+    else for (let k = i; k <= j; k++) add(`${prefix}${nums[k]}`);
+    i = j + 1;
+  }
+  return text;
 }
 
 /** Natural order of designators: R2 before R10. */

@@ -1,14 +1,13 @@
-// Emit: a sized design → the text files of a run, as data (the CLI writes them).
-import { renderBom } from "./bom.js";
+// Emit: a sized design → the text files of a run, as data (the CLI writes them). Each file's
+// text is made when it is written (piece by piece, straight into the file: see output.ts) or
+// first read.
+import { writeBomCsv, writeBomMarkdown } from "./bom.js";
 import type { EmitContext } from "./context.js";
-import { designJson, renderReport } from "./report.js";
-import { renderNetlist, renderTestbench, spiceNamesOf } from "./spice.js";
+import { producedFile, type OutputFile } from "./output.js";
+import { writeDesignJson, writeReport } from "./report.js";
+import { spiceNamesOf, writeNetlist, writeTestbench, type SpiceNames } from "./spice.js";
 
-export interface OutputFile {
-  name: string;
-  content: string;
-  what: string;
-}
+export type { OutputFile } from "./output.js";
 
 export function fileNamesOf(design: string) {
   return {
@@ -24,7 +23,8 @@ export function fileNamesOf(design: string) {
 export function emitDesign(ctx: EmitContext): OutputFile[] {
   const name = ctx.design.netlist.name;
   const f = fileNamesOf(name);
-  const names = spiceNamesOf(ctx.design);
+  let spiceNames: SpiceNames | undefined;
+  const names = () => (spiceNames ??= spiceNamesOf(ctx.design));
   const listing = [
     { name: f.netlist, what: "SPICE netlist: device models, one subcircuit per sized cell, and the design as a subcircuit" },
     { name: f.testbench, what: "ngspice testbench: supply, input drivers, transient run and sampled outputs with expected values" },
@@ -33,14 +33,13 @@ export function emitDesign(ctx: EmitContext): OutputFile[] {
     { name: f.report, what: "this report" },
     { name: f.json, what: "the report's facts for other programs" },
   ];
-  const bom = renderBom(ctx, f);
   return [
-    { name: f.netlist, content: renderNetlist(ctx, names), what: listing[0]!.what },
-    { name: f.testbench, content: renderTestbench(ctx, names, f), what: listing[1]!.what },
-    { name: f.bomCsv, content: bom.csv, what: listing[2]!.what },
-    { name: f.bomMd, content: bom.markdown, what: listing[3]!.what },
-    { name: f.report, content: renderReport(ctx, listing), what: listing[4]!.what },
-    { name: f.json, content: JSON.stringify(designJson(ctx, listing), null, 2) + "\n", what: listing[5]!.what },
+    producedFile(f.netlist, listing[0]!.what, (out) => writeNetlist(out, ctx, names())),
+    producedFile(f.testbench, listing[1]!.what, (out) => writeTestbench(out, ctx, names(), f)),
+    producedFile(f.bomCsv, listing[2]!.what, (out) => writeBomCsv(out, ctx, f)),
+    producedFile(f.bomMd, listing[3]!.what, (out) => writeBomMarkdown(out, ctx, f)),
+    producedFile(f.report, listing[4]!.what, (out) => writeReport(out, ctx, listing)),
+    producedFile(f.json, listing[5]!.what, (out) => writeDesignJson(out, ctx, listing)),
   ];
 }
 

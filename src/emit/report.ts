@@ -4,7 +4,8 @@ import { cellById } from "../cells/registry.js";
 import { bomRows, bomTotals } from "./bom.js";
 import { wiredNetsOf } from "./spice.js";
 import { eng, num, parameterText } from "./format.js";
-import { render } from "./render.js";
+import { renderTo } from "./render.js";
+import type { TextSink } from "./output.js";
 import { generatedBy, type EmitContext } from "./context.js";
 import { stateJson, stateSummaryText, stateView } from "../sequential/report-view.js";
 import { characterizationView } from "../characterize/view.js";
@@ -41,30 +42,29 @@ function valuesText(values: Record<string, number>, openCollector = false): stri
   return openCollector && values.rcOhms !== undefined ? `${own}; no R_C (the net's ${eng(values.rcOhms, "Ω")})` : own;
 }
 
-/** The wired-AND nets for the report: cells on each, the one collector resistor, and the worst
- *  high level, leakage and rise time the sizing found for it. */
+/** The wired-AND nets for the report: how many, and the outputs tied. */
 function wiredView(d: SizedDesign) {
   const nets = wiredNetsOf(d);
   if (!nets.length) return undefined;
-  const tied = nets.reduce((acc, w) => acc + w.tied.length, 0);
+  let tied = 0;
+  for (const w of nets) tied += w.tied.length;
   return {
     summary: `${nets.length} net${nets.length === 1 ? "" : "s"}, ${tied} tied output${tied === 1 ? "" : "s"} (${tied} collector resistor${tied === 1 ? "" : "s"} saved)`,
-    rows: nets.map((w) => {
-      const cells = [w.driver, ...w.tied];
-      const analyses = cells.map((c) => d.instances[c]!.analysis);
-      const worst = (f: (a: CellAnalysis) => number, pick: (...x: number[]) => number) => pick(...analyses.map(f));
-      return {
-        net: w.name,
-        cells: `U${w.driver + 1} (holds R_C), ${w.tied.map((c) => `U${c + 1}`).join(", ")}`,
-        pullUp: `${w.pullUp} ${eng(w.pullUpOhms, "Ω")}`,
-        collectors: cells.length,
-        vOH: eng(worst((a) => a.vOHVolts, Math.min), "V"),
-        leakage: eng(worst((a) => a.wired?.highLeakageAmps ?? 0, Math.max), "A"),
-        satMargin: num(worst((a) => a.satMargin, Math.min)),
-        tPLH: eng(worst((a) => a.timing?.tPLHSeconds ?? 0, Math.max), "s"),
-      };
-    }),
   };
+}
+
+/** A table row a wired-AND net: cells on it, the one collector resistor, and the worst high
+ *  level, leakage and rise time the sizing found for it. */
+function writeWiredRows(out: TextSink, d: SizedDesign): void {
+  for (const w of wiredNetsOf(d)) {
+    const cells = [w.driver, ...w.tied];
+    const analyses = cells.map((c) => d.instances[c]!.analysis);
+    const worst = (f: (a: CellAnalysis) => number, pick: (a: number, b: number) => number) => analyses.map(f).reduce((a, b) => pick(a, b), pick === Math.min ? Infinity : -Infinity);
+    out(
+      `| ${w.name} | U${w.driver + 1} (holds R_C), ${w.tied.map((c) => `U${c + 1}`).join(", ")} | ${w.pullUp} ${eng(w.pullUpOhms, "Ω")} | ${cells.length} | ` +
+        `${eng(worst((a) => a.vOHVolts, Math.min), "V")} | ${eng(worst((a) => a.wired?.highLeakageAmps ?? 0, Math.max), "A")} | ${num(worst((a) => a.satMargin, Math.min))} | ${eng(worst((a) => a.timing?.tPLHSeconds ?? 0, Math.max), "s")} |\n`,
+    );
+  }
 }
 
 function constraintValue(v: number, unit: string): string {
@@ -150,13 +150,6 @@ export function reportView(ctx: EmitContext, files: { name: string; what: string
     equivalenceDetail: eq.equivalent
       ? `Before any file was written, the mapped cells were compared with the source logic for every output${ctx.stateNames.length ? " and for the next value of every state signal (with the state signals as free variables)" : ""}.${partial ? " Cones with more than 20 free variables were checked with seeded random vectors: the check is partial for them." : ""}${eq.cones.some((c) => c.limitedBy === "work") ? " The exhaustive check's work budget ran out before some smaller cones; they too were checked with the random vectors only (method: random, work budget)." : ""}`
       : "The mapped cells do not compute the source logic.",
-    cones: eq.cones.map((c) => ({
-      name: c.name,
-      kind: c.kind === "state" ? "state (next value)" : "output",
-      support: c.support,
-      vectors: c.vectors,
-      method: c.exhaustive ? "exhaustive" : c.limitedBy === "work" ? "random (partial: work budget)" : "random (partial)",
-    })),
     testbenchFile: files.find((f) => f.name.endsWith(".tb.cir"))?.name ?? "",
     stimulusText: ctx.stimulus.clock
       ? `${ctx.stimulus.clock.cycles} cycles of a clock on ${ctx.stimulus.clock.input} (${ctx.stimulus.vectors.length} steps, four a cycle; ${ctx.stimulus.clock.complete ? "every combination of the other inputs in every state reached" : ctx.stimulus.seed !== undefined ? `seeded random data, seed ${ctx.stimulus.seed}` : "the cycle budget ran out before every state and input pair was tried"})`
@@ -165,7 +158,7 @@ export function reportView(ctx: EmitContext, files: { name: string; what: string
       : `${ctx.stimulus.vectors.length} seeded random vectors (seed ${ctx.stimulus.seed})`,
     stepText: eng(ctx.stepSeconds, "s"),
     state: stateView(ctx.state, ctx.timing, ctx.stimulus, ctx.stepSeconds),
-    notes: [...d.notes, ...ctx.notes],
+    anyNotes: d.notes.length + ctx.notes.length > 0,
     optimization: optimizationView(ctx),
     characterization: ctx.characterization ? characterizationView(ctx.characterization) : undefined,
     files,
@@ -188,18 +181,50 @@ function optimizationView(ctx: EmitContext) {
     ],
     wiredSavingText: plain ? `Wired-AND saves ${plain.parts - o.after.parts} part${plain.parts - o.after.parts === 1 ? "" : "s"} (${plain.resistors - o.after.resistors} resistors, ${plain.transistors - o.after.transistors} transistors, ${plain.diodes - o.after.diodes} diodes) against the same logic without it.` : "",
     passes: o.passes.map((p) => ({ pass: p.pass, before: num(p.costBefore, 4), after: num(p.costAfter, 4), kept: p.accepted ? "kept" : "dropped (no cheaper)" })),
-    notes: o.notes.map((n) => (n.signal ? `${n.signal}: ${n.message}` : n.message)),
   };
 }
 
-export function renderReport(ctx: EmitContext, files: { name: string; what: string }[]): string {
-  return render("report.md", reportView(ctx, files));
+export function writeReport(out: TextSink, ctx: EmitContext, files: { name: string; what: string }[]): void {
+  const d = ctx.design;
+  renderTo(out, "report.md", reportView(ctx, files), {
+    wiredRows: (o) => writeWiredRows(o, d),
+    optimizationNotes: (o) => {
+      for (const n of ctx.optimization?.notes ?? []) o(`- ${n.signal ? `${n.signal}: ${n.message}` : n.message}\n`);
+    },
+    cones: (o) => {
+      for (const c of ctx.equivalence.cones) {
+        const kind = c.kind === "state" ? "state (next value)" : "output";
+        const method = c.exhaustive ? "exhaustive" : c.limitedBy === "work" ? "random (partial: work budget)" : "random (partial)";
+        o(`| ${c.name} | ${kind} | ${c.support} | ${c.vectors} | ${method} |\n`);
+      }
+    },
+    notes: (o) => {
+      for (const n of d.notes) o(`- ${n}\n`);
+      for (const n of ctx.notes) o(`- ${n}\n`);
+    },
+  });
 }
 
-/** The facts of the report for other programs. Numbers in SI units, names as in the source. */
-export function designJson(ctx: EmitContext, files: { name: string; what: string }[]): object {
+/** A list in the JSON whose items are made one by one as they are written. */
+class JsonList {
+  constructor(
+    readonly length: number,
+    readonly item: (i: number) => unknown,
+    /** Roughly how many lines item i takes (batches of items are kept to a size). */
+    readonly weight: (i: number) => number = () => 1,
+  ) {}
+  toArray(): unknown[] {
+    return Array.from({ length: this.length }, (_, i) => this.item(i));
+  }
+}
+
+/** The JSON's top-level entries, with the lists that grow with the design as JsonLists. */
+function jsonDocument(ctx: EmitContext, files: { name: string; what: string }[]): Record<string, unknown> {
   const d = ctx.design;
   const nl = d.netlist;
+  const typeKeys = d.cellTypes.map((t) => t.key);
+  const wired = wiredNetsOf(d);
+  const rows = bomRows(d);
   return {
     generator: { name: ctx.tool.name, version: ctx.tool.version, note: generatedBy(ctx) },
     design: nl.name,
@@ -224,33 +249,47 @@ export function designJson(ctx: EmitContext, files: { name: string; what: string
       openCollector: t.openCollector ?? false,
       analysis: t.analysis,
     })),
-    cells: nl.cells.map((c) => {
+    cells: new JsonList(nl.cells.length, (i) => {
+      const c = nl.cells[i]!;
       const inst = d.instances[c.index]!;
       return {
         designator: `U${c.index + 1}`,
-        type: d.cellTypes[inst.cellType]!.key,
+        type: typeKeys[inst.cellType]!,
         inputs: c.inputs.map((x) => nl.nets[x]!.name),
         output: nl.nets[c.output]!.name,
         parts: inst.designators,
       };
     }),
-    nets: nl.nets.map((n) => ({
-      name: n.name,
-      fromSource: n.named,
-      driver: n.driver.kind === "cell" ? `U${n.driver.cell + 1}` : n.driver.kind === "input" ? "input" : `constant ${n.driver.value}`,
-      loads: n.loads.map((l) => ({ cell: `U${l.cell + 1}`, pin: l.pin + 1 })),
-      ...(n.tiedCells?.length ? { tied: n.tiedCells.map((c) => `U${c + 1}`) } : {}),
-    })),
-    wiredNets: wiredNetsOf(d).map((w) => ({ net: w.name, driver: `U${w.driver + 1}`, tied: w.tied.map((c) => `U${c + 1}`), pullUp: w.pullUp, pullUpOhms: w.pullUpOhms })),
-    partsList: bomRows(d).map((r) => ({
-      quantity: r.quantity,
-      designators: r.designatorList,
-      value: r.value,
-      tolerance: r.tolerance,
-      rating: r.rating,
-      description: r.description,
-      partNumber: r.partNumber,
-    })),
+    nets: new JsonList(nl.nets.length, (i) => {
+      const n = nl.nets[i]!;
+      return {
+        name: n.name,
+        fromSource: n.named,
+        driver: n.driver.kind === "cell" ? `U${n.driver.cell + 1}` : n.driver.kind === "input" ? "input" : `constant ${n.driver.value}`,
+        loads: n.loads.map((l) => ({ cell: `U${l.cell + 1}`, pin: l.pin + 1 })),
+        ...(n.tiedCells?.length ? { tied: n.tiedCells.map((c) => `U${c + 1}`) } : {}),
+      };
+    }),
+    wiredNets: new JsonList(wired.length, (i) => {
+      const w = wired[i]!;
+      return { net: w.name, driver: `U${w.driver + 1}`, tied: w.tied.map((c) => `U${c + 1}`), pullUp: w.pullUp, pullUpOhms: w.pullUpOhms };
+    }),
+    partsList: new JsonList(
+      rows.length,
+      (i) => {
+        const r = rows[i]!;
+        return {
+          quantity: r.quantity,
+          designators: r.designatorList,
+          value: r.value,
+          tolerance: r.tolerance,
+          rating: r.rating,
+          description: r.description,
+          partNumber: r.partNumber,
+        };
+      },
+      (i) => rows[i]!.designatorList.length,
+    ),
     totals: d.totals,
     criticalPath: d.criticalPath ?? null,
     state: stateJson(ctx.state, ctx.timing),
@@ -268,4 +307,68 @@ export function designJson(ctx: EmitContext, files: { name: string; what: string
     cautions: cautions(d),
     files,
   };
+}
+
+/** The facts of the report for other programs. Numbers in SI units, names as in the source. */
+export function designJson(ctx: EmitContext, files: { name: string; what: string }[]): object {
+  const doc = jsonDocument(ctx, files);
+  for (const k of Object.keys(doc)) {
+    const v = doc[k];
+    if (v instanceof JsonList) doc[k] = v.toArray();
+  }
+  return doc;
+}
+
+/** Items of a list stringified together: at most this many, or this many lines' weight. */
+const JSON_BATCH_ITEMS = 256;
+const JSON_BATCH_WEIGHT = 4096;
+
+/**
+ * designJson as `JSON.stringify(json, null, 2) + "\n"` writes it, written entry by entry and,
+ * in the lists that grow with the design, a batch of items at a time. Each value is stringified
+ * by JSON.stringify itself, nested in arrays as deep as it stands in the document, so it comes
+ * out with the document's own indentation; the wrapping brackets are cut off again.
+ */
+export function writeDesignJson(out: TextSink, ctx: EmitContext, files: { name: string; what: string }[]): void {
+  const doc = jsonDocument(ctx, files);
+  let first = true;
+  out("{");
+  for (const key of Object.keys(doc)) {
+    const v = doc[key];
+    // JSON.stringify leaves out entries it has no text for.
+    if (v === undefined || typeof v === "function" || typeof v === "symbol") continue;
+    out(`${first ? "" : ","}\n  ${JSON.stringify(key)}: `);
+    first = false;
+    if (!(v instanceof JsonList)) {
+      // "[\n  <value>\n]"
+      const text = JSON.stringify([v], null, 2);
+      out(text.slice(4, text.length - 2));
+      continue;
+    }
+    if (v.length === 0) {
+      out("[]");
+      continue;
+    }
+    out("[\n");
+    let batch: unknown[] = [];
+    let weight = 0;
+    let written = false;
+    const flush = () => {
+      // "[\n  [\n    <item>,\n    <item>\n  ]\n]"
+      const text = JSON.stringify([batch], null, 2);
+      if (written) out(",\n");
+      out(text.slice(6, text.length - 6));
+      written = true;
+      batch = [];
+      weight = 0;
+    };
+    for (let i = 0; i < v.length; i++) {
+      batch.push(v.item(i));
+      weight += v.weight(i);
+      if (batch.length >= JSON_BATCH_ITEMS || weight >= JSON_BATCH_WEIGHT) flush();
+    }
+    if (batch.length) flush();
+    out("\n  ]");
+  }
+  out(first ? "}\n" : "\n}\n");
 }

@@ -1,10 +1,13 @@
-// The SPICE netlist (x.cir) and its testbench (x.tb.cir), as view models for the templates.
+// The SPICE netlist (x.cir) and its testbench (x.tb.cir): view models for the templates, and
+// the sections that grow with the design (instances, ties, input drivers, steps) written line
+// by line to the output (see render.ts).
 import type { SizedDesign } from "../electrical/types.js";
 import { eng, parameterText, spiceNumber, spiceParam } from "./format.js";
-import { render } from "./render.js";
+import { renderTo } from "./render.js";
 import { SpiceNamer } from "./spice-names.js";
 import { cellById } from "../cells/registry.js";
 import { generatedBy, type EmitContext } from "./context.js";
+import type { TextSink } from "./output.js";
 
 export interface SpiceNames {
   namer: SpiceNamer;
@@ -51,7 +54,17 @@ export interface WiredNet {
   pullUpOhms: number;
 }
 
+const wiredMade = new WeakMap<SizedDesign, WiredNet[]>();
+
+/** The design's wired-AND nets, found once a design (the netlist, the parts list, the report
+ *  and the JSON all read them). */
 export function wiredNetsOf(design: SizedDesign): WiredNet[] {
+  let nets = wiredMade.get(design);
+  if (!nets) wiredMade.set(design, (nets = findWiredNets(design)));
+  return nets;
+}
+
+function findWiredNets(design: SizedDesign): WiredNet[] {
   const out: WiredNet[] = [];
   for (const n of design.netlist.nets) {
     if (n.driver.kind !== "cell" || !n.tiedCells?.length) continue;
@@ -80,9 +93,19 @@ export interface Tie {
   ohms: number;
 }
 
+const tiesMade = new WeakMap<SizedDesign, Tie[]>();
+
+/** The design's tie resistors, found once a design (the netlist and the parts list read them). */
 export function tiesOf(design: SizedDesign): Tie[] {
+  let ties = tiesMade.get(design);
+  if (!ties) tiesMade.set(design, (ties = findTies(design)));
+  return ties;
+}
+
+function findTies(design: SizedDesign): Tie[] {
   const ties: Tie[] = [];
-  let next = design.components.filter((c) => c.kind === "R").length;
+  let next = 0;
+  for (const c of design.components) if (c.kind === "R") next++;
   for (const net of design.netlist.nets) {
     if (net.driver.kind !== "tie") continue;
     if (net.loads.length === 0 && net.outputPort === undefined) continue;
@@ -91,7 +114,7 @@ export function tiesOf(design: SizedDesign): Tie[] {
   return ties;
 }
 
-export function renderNetlist(ctx: EmitContext, names: SpiceNames): string {
+export function writeNetlist(out: TextSink, ctx: EmitContext, names: SpiceNames): void {
   const d = ctx.design;
   const nl = d.netlist;
   const supply = d.parameters.find((p) => p.name === "supplyVolts");
@@ -113,27 +136,7 @@ export function renderNetlist(ctx: EmitContext, names: SpiceNames): string {
     elements: t.elements.map((e) => ({ line: elementLine(e, d) })),
   }));
   const wiredNets = wiredNetsOf(d);
-  const wiredByNet = new Map(wiredNets.map((w) => [w.net, w]));
-  const instances = d.instances.map((inst) => {
-    const cell = nl.cells[inst.cell]!;
-    const type = d.cellTypes[inst.cellType]!;
-    const nodes = [...cell.inputs.map((x) => names.net[x]!), names.net[cell.output]!, "vcc"];
-    const parts = Object.entries(inst.designators)
-      .map(([local, global]) => `${local}=${global}`)
-      .join(" ");
-    const signal = nl.nets[cell.output]!.name;
-    const wired = wiredByNet.get(cell.output);
-    const role = !wired ? "" : cell.tiedOutput ? " (tied on, wired-AND: no collector resistor of its own)" : ` (wired-AND: holds the net's collector resistor ${wired.pullUp})`;
-    return {
-      comment: `U${inst.cell + 1} drives ${signal}${role}: ${parts}`,
-      line: `XU${inst.cell + 1} ${nodes.join(" ")} ${type.key}`,
-    };
-  });
-  const ties = tiesOf(d).map((t) => ({
-    comment: `${nl.nets[t.net]!.name} is constant ${t.value}: tied to ${t.value ? "the supply" : "ground"} by ${t.designator}`,
-    line: `${t.designator} ${names.net[t.net]} ${t.value ? "vcc" : "0"} ${spiceNumber(t.ohms)}`,
-  }));
-  return render("netlist.cir", {
+  const view = {
     designName: nl.name,
     generatedBy: generatedBy(ctx),
     commandLine: ctx.commandLine,
@@ -146,16 +149,48 @@ export function renderNetlist(ctx: EmitContext, names: SpiceNames): string {
       valueText: parameterText(p.value, p.unit),
       sourceText: p.source === "user" ? "given" : "default",
     })),
-    renamed: names.namer.renamed(),
-    wiredNets: wiredNets.map((w) => ({
-      line: `${w.name}${names.net[w.net] !== w.name ? ` (node ${names.net[w.net]})` : ""}: U${w.driver + 1} with ${w.pullUp} ${eng(w.pullUpOhms, "Ω")}, tied: ${w.tied.map((c) => `U${c + 1}`).join(", ")}`,
-    })),
+    anyRenamed: names.namer.anyRenamed(),
+    anyWiredNets: wiredNets.length > 0,
     topPorts,
     models,
     cellTypes,
-    instances,
-    ties,
+  };
+  renderTo(out, "netlist.cir", view, {
+    renamed: (o) => names.namer.forEachRenamed((source, spice) => o(`*   ${source} -> ${spice}\n`)),
+    wiredNets: (o) => {
+      for (const w of wiredNets) {
+        o(`*   ${w.name}${names.net[w.net] !== w.name ? ` (node ${names.net[w.net]})` : ""}: U${w.driver + 1} with ${w.pullUp} ${eng(w.pullUpOhms, "Ω")}, tied: ${w.tied.map((c) => `U${c + 1}`).join(", ")}\n`);
+      }
+    },
+    instances: (o) => writeInstances(o, d, names, wiredNets),
+    ties: (o) => {
+      for (const t of tiesOf(d)) {
+        o(`* ${nl.nets[t.net]!.name} is constant ${t.value}: tied to ${t.value ? "the supply" : "ground"} by ${t.designator}\n${t.designator} ${names.net[t.net]} ${t.value ? "vcc" : "0"} ${spiceNumber(t.ohms)}\n`);
+      }
+    },
   });
+}
+
+/** One comment line (the cell's designator, the signal it drives, its parts) and one X line a
+ *  cell instance. */
+function writeInstances(out: TextSink, d: SizedDesign, names: SpiceNames, wiredNets: WiredNet[]): void {
+  const nl = d.netlist;
+  const net = names.net;
+  const wiredByNet = wiredNets.length ? new Map(wiredNets.map((w) => [w.net, w])) : undefined;
+  const typeKeys = d.cellTypes.map((t) => t.key);
+  for (const inst of d.instances) {
+    const cell = nl.cells[inst.cell]!;
+    let nodes = "";
+    for (const x of cell.inputs) nodes += `${net[x]!} `;
+    let parts = "";
+    const designators = inst.designators;
+    for (const local in designators) parts += parts === "" ? `${local}=${designators[local]}` : ` ${local}=${designators[local]}`;
+    const signal = nl.nets[cell.output]!.name;
+    const wired = wiredByNet?.get(cell.output);
+    const role = !wired ? "" : cell.tiedOutput ? " (tied on, wired-AND: no collector resistor of its own)" : ` (wired-AND: holds the net's collector resistor ${wired.pullUp})`;
+    const u = inst.cell + 1;
+    out(`* U${u} drives ${signal}${role}: ${parts}\nXU${u} ${nodes}${net[cell.output]!} vcc ${typeKeys[inst.cellType]!}\n`);
+  }
 }
 
 export interface TestbenchLevels {
@@ -263,6 +298,7 @@ function dutNode(design: SizedDesign, names: SpiceNames, net: number): string {
 }
 
 export function sampledStateNets(design: SizedDesign, names: SpiceNames, stimulus: { stateSignals?: string[] }): SampledStateNet[] {
+  if (!stimulus.stateSignals?.length) return [];
   const byName = new Map(design.netlist.nets.map((n) => [n.name, n.index]));
   const out: SampledStateNet[] = [];
   (stimulus.stateSignals ?? []).forEach((name, index) => {
@@ -289,7 +325,7 @@ export function initialConditions(design: SizedDesign, names: SpiceNames, initia
   return out;
 }
 
-export function renderTestbench(ctx: EmitContext, names: SpiceNames, files: { netlist: string; testbench: string }): string {
+export function writeTestbench(out: TextSink, ctx: EmitContext, names: SpiceNames, files: { netlist: string; testbench: string }): void {
   const d = ctx.design;
   const nl = d.netlist;
   const st = ctx.stimulus;
@@ -300,7 +336,7 @@ export function renderTestbench(ctx: EmitContext, names: SpiceNames, files: { ne
   // saturating transistor to ground, whose base a PWL source switches.
   const drv = d.inputDriver;
   const baseDrive = supply;
-  const sources = names.inputs.map((node, k) => {
+  const writeSource = (o: TextSink, node: string, k: number) => {
     // The control source is high when the input must be low.
     const level = (bit: 0 | 1) => (bit ? 0 : baseDrive);
     const pts: string[] = [`0 ${spiceNumber(level(st.vectors[0]![k]!))}`];
@@ -311,44 +347,39 @@ export function renderTestbench(ctx: EmitContext, names: SpiceNames, files: { ne
       pts.push(`${spiceNumber(i * T)} ${spiceNumber(level(prev))}`);
       pts.push(`${spiceNumber(i * T + edge)} ${spiceNumber(level(cur))}`);
     }
-    const lines = [
-      `* input ${nl.nets[nl.inputs[k]!]!.name}: pull-up ${eng(drv.pullUpOhms, "Ω")}, transistor to ground`,
-      `R_PU_${node} vcc ${node} ${spiceNumber(drv.pullUpOhms)}`,
-      `Q_DRV_${node} ${node} drvb_${node} 0 ${d.models.npn.name}`,
-      `R_DRV_${node} drvc_${node} drvb_${node} ${spiceNumber(driverBaseOhms(d, nl.inputs[k]!))}`,
-    ];
-    const head = `V_DRV_${node} drvc_${node} 0 PWL(`;
-    let line = head;
+    let text =
+      `* input ${nl.nets[nl.inputs[k]!]!.name}: pull-up ${eng(drv.pullUpOhms, "Ω")}, transistor to ground\n` +
+      `R_PU_${node} vcc ${node} ${spiceNumber(drv.pullUpOhms)}\n` +
+      `Q_DRV_${node} ${node} drvb_${node} 0 ${d.models.npn.name}\n` +
+      `R_DRV_${node} drvc_${node} drvb_${node} ${spiceNumber(driverBaseOhms(d, nl.inputs[k]!))}\n`;
+    let line = `V_DRV_${node} drvc_${node} 0 PWL(`;
     pts.forEach((p, i) => {
       if (line.length + p.length > 100) {
-        lines.push(line);
+        text += line + "\n";
         line = "+ ";
       }
       line += p + (i < pts.length - 1 ? " " : ")");
     });
-    lines.push(line);
-    return { lines };
-  });
+    o(text + line + "\n");
+  };
   const stateNets = sampledStateNets(d, names, st);
   const tri = (x: 0 | 1 | "X") => (x === "X" ? "x" : String(x));
-  const edgeSteps = new Set(st.edgeSteps ?? []);
-  const steps = st.vectors.map((v, i) => ({
-    index: i,
-    timeText: eng(sampleTime(i, T), "s", 4),
-    inputs: v.join(""),
-    expected: st.expected[i]!.map(tri).join(""),
-    stateExpected: stateNets.length ? stateNets.map((s) => tri(st.stateExpected![i]![s.index]!)).join("") : "",
-    phase: st.clock ? (i === 0 ? "start, clock low: the initial state released" : ["data change, clock low: the state just before the next rising edge", "clock rises", "clock high", "clock falls"][(i - 1) % 4]) : "",
-    beforeEdge: edgeSteps.has(i),
-    measures: [
-      ...names.outputs.map((o) => `s${i}_${o} FIND v(${o}) AT=${spiceNumber(sampleTime(i, T), 8)}`),
-      ...stateNets.map((s) => `${stateMeasureName(i, names.net[s.net]!)} FIND v(${s.node}) AT=${spiceNumber(sampleTime(i, T), 8)}`),
-    ],
-  }));
+  const phaseOf = (i: number) => (st.clock ? (i === 0 ? "start, clock low: the initial state released" : ["data change, clock low: the state just before the next rising edge", "clock rises", "clock high", "clock falls"][(i - 1) % 4]!) : "");
+  const writeSteps = (o: TextSink) => {
+    for (let i = 0; i < st.vectors.length; i++) {
+      const stateExpected = stateNets.length ? stateNets.map((s) => tri(st.stateExpected![i]![s.index]!)).join("") : "";
+      const phase = phaseOf(i);
+      const at = spiceNumber(sampleTime(i, T), 8);
+      let text = `* step ${i} at ${eng(sampleTime(i, T), "s", 4)}: inputs ${st.vectors[i]!.join("")} -> expect ${st.expected[i]!.map(tri).join("")}${stateExpected ? `, state ${stateExpected}` : ""}${phase ? ` (${phase})` : ""}\n`;
+      for (const o2 of names.outputs) text += `.meas tran s${i}_${o2} FIND v(${o2}) AT=${at}\n`;
+      for (const s of stateNets) text += `.meas tran ${stateMeasureName(i, names.net[s.net]!)} FIND v(${s.node}) AT=${at}\n`;
+      o(text);
+    }
+  };
   const ics = initialConditions(d, names, st.initial);
   const clock = st.clock;
   const stop = st.vectors.length * T;
-  return render("testbench.cir", {
+  const view = {
     designName: nl.name,
     generatedBy: generatedBy(ctx),
     testbenchFile: files.testbench,
@@ -364,7 +395,6 @@ export function renderTestbench(ctx: EmitContext, names: SpiceNames, files: { ne
           `cycle. The other inputs change one step (a quarter period) before each rising edge.`,
         ]
       : [],
-    icLines: ics.map((ic) => `v(${ic.node})=${spiceNumber(ic.volts, 4)}`),
     icComment: ics.length
       ? `Initial state (held while the operating point is found, released at t = 0): ${ics.map((ic) => `${ic.name} = ${ic.value}`).join(", ")}${st.defaults?.length ? `; ${st.defaults.join(", ")} start${st.defaults.length === 1 ? "s" : ""} at 0 because no init declaration sets ${st.defaults.length === 1 ? "it" : "them"}` : ""}.`
       : "",
@@ -372,19 +402,27 @@ export function renderTestbench(ctx: EmitContext, names: SpiceNames, files: { ne
     stepText: eng(T, "s"),
     sampleText: eng(T * SAMPLE_FRACTION, "s"),
     pullUpText: eng(d.inputDriver.pullUpOhms, "Ω"),
-    thresholds: [
-      ...names.outputs.map((o, k) => ({ node: o, lv: outputLevels(d, k) })),
-      ...stateNets.map((sn) => ({ node: sn.node, lv: netLevels(d, sn.net) })),
-    ].map(({ node, lv }) => ({ node, vilText: eng(lv.vilVolts, "V"), vihText: eng(lv.vihVolts, "V") })),
     optionsLine: "reltol=1e-4 abstol=1e-12 vntol=1e-6 itl4=100",
     supplyValue: spiceNumber(supply),
-    sources,
     dutNodes: [...names.inputs, ...names.outputs, "vcc"].join(" "),
     tranStep: spiceNumber(T / 200),
     tranStop: spiceNumber(stop),
     tranMaxStep: spiceNumber(T / 50),
     saveList: [...names.inputs, ...names.outputs].map((x) => `v(${x})`).concat(stateNets.map((s) => `v(${s.node})`), ["i(vcc)"]).join(" "),
     outputs: nl.outputs.map((o) => o.name).join(" "),
-    steps,
+  };
+  const threshold = (o: TextSink, node: string, lv: TestbenchLevels) => o(`*   ${node}: 0 at or below ${eng(lv.vilVolts, "V")}, 1 at or above ${eng(lv.vihVolts, "V")}\n`);
+  renderTo(out, "testbench.cir", view, {
+    thresholds: (o) => {
+      names.outputs.forEach((node, k) => threshold(o, node, outputLevels(d, k)));
+      for (const sn of stateNets) threshold(o, sn.node, netLevels(d, sn.net));
+    },
+    sources: (o) => names.inputs.forEach((node, k) => writeSource(o, node, k)),
+    icLines: (o) => {
+      let line = "";
+      for (const ic of ics) line += ` v(${ic.node})=${spiceNumber(ic.volts, 4)}`;
+      o(line + "\n");
+    },
+    steps: writeSteps,
   });
 }

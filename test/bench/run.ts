@@ -11,6 +11,11 @@
 //                                                    chosen sizes, starting with stages reduced
 //         npm run bench -- --profile random:10000         one design under node --cpu-prof:
 //                                                         the hottest functions per stage
+//                                                         (--start-modes applies here too)
+//
+// The emit stage emits the six files and writes them (src/cli/write.ts, as `synth` does) into a
+// scratch folder that is removed afterwards: its time and memory are those of the whole output
+// path. Its CPU time and the peak resident memory sampled while it ran are shown beside it.
 //
 // Each design runs in a child process of its own (so its peak memory is its own, and a stage
 // that runs away can be stopped): the child runs the stages in the order synthesize() runs them
@@ -24,7 +29,7 @@
 // (equivalence: not checked; optimization: level 0, the logic as written). The tables say so.
 // A child stopped at the job cap ends its family.
 import { spawn } from "node:child_process";
-import { readFileSync, existsSync, mkdtempSync, readdirSync } from "node:fs";
+import { readFileSync, existsSync, mkdtempSync, readdirSync, rmSync, statSync } from "node:fs";
 import { cpus, loadavg, tmpdir, totalmem } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
@@ -92,6 +97,8 @@ interface StageLine {
   rep: number;
   stage: StageKey;
   ms: number;
+  /** CPU time of the process during the stage (user + system, every thread). */
+  cpuMs: number;
   rssMB: number;
   note?: string;
 }
@@ -107,6 +114,7 @@ async function child(job: Job): Promise<void> {
   const { checkFeedbackHazards, planTestbench } = await import("../../src/sequential/plan.js");
   const { stepSecondsFor } = await import("../../src/pipeline/synthesize.js");
   const { emitDesign } = await import("../../src/emit/index.js");
+  const { writeOutputs } = await import("../../src/cli/write.js");
   const { TOOL } = await import("../../src/pipeline/tool.js");
   const { hasErrors } = await import("../../src/diagnostics/index.js");
 
@@ -127,8 +135,10 @@ async function child(job: Job): Promise<void> {
     const time = <R>(stage: StageKey, f: () => R, note?: string): R => {
       current = stage;
       const t0 = performance.now();
+      const c0 = process.cpuUsage();
       const r = f();
-      const line: StageLine = { t: "stage", rep, stage, ms: performance.now() - t0, rssMB: rss() };
+      const c = process.cpuUsage(c0);
+      const line: StageLine = { t: "stage", rep, stage, ms: performance.now() - t0, cpuMs: (c.user + c.system) / 1000, rssMB: rss() };
       if (note) line.note = note;
       send(line);
       return r;
@@ -185,8 +195,9 @@ async function child(job: Job): Promise<void> {
     time("hazards", () => checkFeedbackHazards(g, builtLogic, front.state, front.keptNames));
     const planOpts = { baseStepSeconds: stepSecondsFor(design), ...(job.modes.plan === "full" ? {} : { randomVectors: 8 }) };
     const plan = time("plan", () => planTestbench(g, design, front.state, front.stateNames, planOpts), job.modes.plan === "full" ? undefined : "8 vectors");
-    const files = time("emit", () =>
-      emitDesign({
+    const outDir = mkdtempSync(join(tmpdir(), "gw-bench-out-"));
+    const written = time("emit", () => {
+      const files = emitDesign({
         tool: TOOL,
         commandLine: `gatewright synth ${file}`,
         sourceFile: file,
@@ -199,14 +210,19 @@ async function child(job: Job): Promise<void> {
         notes: [],
         ...(front.state ? { state: front.state } : {}),
         ...(plan.timing ? { timing: plan.timing } : {}),
-      }),
-    );
+      });
+      const w = writeOutputs(outDir, files);
+      if (w.error) throw new Error(w.error.message);
+      return w.written;
+    });
+    const outputBytes = written.reduce((s, f) => s + statSync(f).size, 0);
+    rmSync(outDir, { recursive: true, force: true });
     info = {
       nodes: g.nodes.length,
       inputs: g.inputs.length,
       outputs: g.outputs.length,
       cells: netlist.cells.length,
-      outputBytes: files.reduce((s, f) => s + Buffer.byteLength(f.content), 0),
+      outputBytes,
       partialCones: eq.cones.filter((c) => !c.exhaustive).length,
       workLimitedCones: eq.cones.filter((c) => c.limitedBy === "work").length,
       vectors: plan.stimulus.vectors.length,
@@ -223,6 +239,11 @@ interface JobResult {
   gates: number;
   /** Per stage, the times of the runs that reached it. */
   times: Map<StageKey, number[]>;
+  /** Per stage, the CPU times of the runs that reached it. */
+  cpu: Map<StageKey, number[]>;
+  /** Per stage, the highest resident memory sampled while it ran, and the memory when it began. */
+  stagePeakMB: Map<StageKey, number>;
+  stageStartMB: Map<StageKey, number>;
   notes: Map<StageKey, string>;
   peakRssMB: number;
   runs: number;
@@ -245,7 +266,7 @@ function readRssMB(pid: number): number {
 
 function runJob(job: Job, jobCapMs: number, extraNodeArgs: string[] = []): Promise<JobResult> {
   const { text } = designOf(job.family, job.size);
-  const result: JobResult = { job, gates: gateCount(text), times: new Map(), notes: new Map(), peakRssMB: 0, runs: 0, info: {}, wallMs: 0 };
+  const result: JobResult = { job, gates: gateCount(text), times: new Map(), cpu: new Map(), stagePeakMB: new Map(), stageStartMB: new Map(), notes: new Map(), peakRssMB: 0, runs: 0, info: {}, wallMs: 0 };
   const t0 = performance.now();
   return new Promise((resolve) => {
     const proc = spawn(process.execPath, ["--expose-gc", ...extraNodeArgs, "--import", TSX_LOADER, fileURLToPath(import.meta.url), "--child", JSON.stringify(job)], {
@@ -256,8 +277,15 @@ function runJob(job: Job, jobCapMs: number, extraNodeArgs: string[] = []): Promi
     let buffer = "";
     let stderr = "";
     let killedForCap = false;
+    let lastRssMB = 0;
     const sampler = setInterval(() => {
-      if (proc.pid !== undefined) result.peakRssMB = Math.max(result.peakRssMB, readRssMB(proc.pid));
+      if (proc.pid === undefined) return;
+      const now = readRssMB(proc.pid);
+      result.peakRssMB = Math.max(result.peakRssMB, now);
+      if (lastStage !== "start") {
+        const running = nextStage(lastStage);
+        if (running !== lastStage) result.stagePeakMB.set(running, Math.max(result.stagePeakMB.get(running) ?? 0, now));
+      }
     }, 50);
     const cap = setTimeout(() => {
       killedForCap = true;
@@ -279,9 +307,19 @@ function runJob(job: Job, jobCapMs: number, extraNodeArgs: string[] = []): Promi
           const s = msg as unknown as StageLine;
           // A NAND fallback's second map and size add to the first.
           const list = result.times.get(s.stage) ?? [];
-          if (list.length === s.rep + 1) list[s.rep]! += s.ms;
-          else list.push(s.ms);
+          const cpuList = result.cpu.get(s.stage) ?? [];
+          if (list.length === s.rep + 1) {
+            list[s.rep]! += s.ms;
+            cpuList[s.rep]! += s.cpuMs;
+          } else {
+            list.push(s.ms);
+            cpuList.push(s.cpuMs);
+          }
           result.times.set(s.stage, list);
+          result.cpu.set(s.stage, cpuList);
+          result.stagePeakMB.set(s.stage, Math.max(result.stagePeakMB.get(s.stage) ?? 0, s.rssMB));
+          const following = nextStage(s.stage);
+          if (following !== s.stage && !result.stageStartMB.has(following)) result.stageStartMB.set(following, s.rssMB);
           if (s.note) result.notes.set(s.stage, s.note);
           result.runs = Math.max(result.runs, s.rep + 1);
           result.peakRssMB = Math.max(result.peakRssMB, s.rssMB);
@@ -384,7 +422,7 @@ function repsFor(gates: number): number {
 
 async function parent(): Promise<void> {
   const args = parseArgs(process.argv.slice(2));
-  if (args.profile) return profile(args.profile);
+  if (args.profile) return profile(args.profile, args.startModes);
   const plan: PlanEntry[] = args.quick
     ? [
         { family: "c17", sizes: [5] },
@@ -420,7 +458,7 @@ async function parent(): Promise<void> {
       const r = await runJob(job, capMs);
       results.push(r);
       const shown = ALL_KEYS.map((k) => `${k} ${fmtMs(r.times.get(k) ? median(r.times.get(k)!) : undefined)}`).join(", ");
-      print(`  ${entry.family} ${size} (${r.gates} gates, ${r.runs} run${r.runs === 1 ? "" : "s"}, ${(r.wallMs / 1000).toFixed(0)} s): ${shown}; peak ${r.peakRssMB} MB${r.stopped ? ` — ${r.stopped.why}` : ""}`);
+      print(`  ${entry.family} ${size} (${r.gates} gates, ${r.runs} run${r.runs === 1 ? "" : "s"}, ${(r.wallMs / 1000).toFixed(0)} s): ${shown}; peak ${r.peakRssMB} MB; ${emitText(r)}${r.stopped ? ` — ${r.stopped.why}` : ""}`);
       // Time caps: reduce, then skip, the stages that ran too long.
       for (const k of ["optimize", "equivalence", "plan"] as const) {
         const t = r.times.get(k);
@@ -439,6 +477,15 @@ async function parent(): Promise<void> {
   }
   print("");
   report(results, args, print);
+}
+
+/** The emit stage (emit and write): wall and CPU time (medians), memory at its start, peak while it ran, output size. */
+function emitText(r: JobResult): string {
+  const t = r.times.get("emit");
+  const c = r.cpu.get("emit");
+  if (!t?.length) return "emit —";
+  const bytes = typeof r.info.outputBytes === "number" ? `, ${(r.info.outputBytes / 1e6).toFixed(1)} MB written` : "";
+  return `emit ${fmtMs(median(t))} ms (CPU ${fmtMs(c?.length ? median(c) : undefined)} ms), RSS ${r.stageStartMB.get("emit") ?? "—"} MB at its start, ${r.stagePeakMB.get("emit") ?? "—"} MB peak during it${bytes}`;
 }
 
 function report(results: JobResult[], args: { stageCapMs: number; jobCapMs: number }, print: (s: string) => void): void {
@@ -468,6 +515,8 @@ function report(results: JobResult[], args: { stageCapMs: number; jobCapMs: numb
     ),
   );
   print("\ntarget path: parse, build, optimize, map, size (uniform) and emit (all six files); all stages: as synthesize() runs them, with the equivalence check, hazard check and testbench stimulus.");
+  print("\n## Emit and write (all six files into a scratch folder)\n");
+  for (const r of results) print(`- ${r.job.family === "c17" ? "c17" : `${r.job.family} ${r.job.size}`}: ${emitText(r)}`);
   const stopped = results.filter((r) => r.stopped);
   for (const r of stopped) print(`stopped: ${r.job.family} ${r.job.size}: ${r.stopped!.why}`);
 
@@ -542,11 +591,11 @@ function report(results: JobResult[], args: { stageCapMs: number; jobCapMs: numb
 // ---------------------------------------------------------------------------------------------
 // Profiling one design: node --cpu-prof in the child, then the hottest functions
 
-async function profile(spec: string): Promise<void> {
+async function profile(spec: string, modes: Partial<Record<ReducibleStage, Mode>>): Promise<void> {
   const [family, sizeText] = spec.split(":") as [Family, string];
   const size = Number(sizeText);
   const dir = mkdtempSync(join(tmpdir(), "gw-bench-prof-"));
-  const job: Job = { family, size, reps: 1, modes: { optimize: "full", equivalence: "full", plan: "full" }, repeatBudgetMs: 0 };
+  const job: Job = { family, size, reps: 1, modes: { optimize: "full", equivalence: "full", plan: "full", ...modes }, repeatBudgetMs: 0 };
   const r = await runJob(job, 3_600_000, ["--cpu-prof", `--cpu-prof-dir=${dir}`]);
   process.stdout.write(`${family} ${size}: ${ALL_KEYS.map((k) => `${k} ${fmtMs(r.times.get(k)?.[0])}`).join(", ")}; peak ${r.peakRssMB} MB${r.stopped ? ` — ${r.stopped.why}` : ""}\n`);
   const files = existsSync(dir) ? readdirSync(dir).filter((f) => f.endsWith(".cpuprofile")) : [];
