@@ -89,6 +89,10 @@ export interface InputDrive {
   orSourceOhms: number;
   /** For diode-OR inputs: most current the strongest driver can push into one input (stress). */
   orSourceMaxAmps: number;
+  /** For diode-AND inputs: the pull-up behind a rising input (the driver's R_C at its high end),
+   *  which limits the reverse current that clears the input diode's stored charge. Absent: a
+   *  stiff source (a voltage step). */
+  andSourceOhms?: number;
 }
 
 /** One analysis of a cell at given values, conditions, load and drive. Currents in A, volts in V. */

@@ -1,6 +1,7 @@
 // Worst-case evaluation of one cell kind with candidate values over its load situations, every
 // corner (supply × temperature) and every resistor-tolerance case the cell names.
 import type { CellDefinition, CellEnv, CellOperatingPoint, CellValues, ComponentStress, InputDrive, OutputLoad } from "../cells/types.js";
+import { clampBoundAmps } from "../cells/fast-kit/index.js";
 import { onWiredNet, shareFactor } from "../cells/output-stage.js";
 import { collectorLeakageAmps, diodeReverseLeakageAmps } from "./leakage.js";
 import { DEFAULT_SCHOTTKY, devicesAt, schottkyAt } from "./devices.js";
@@ -20,6 +21,7 @@ export const CONSTRAINTS = [
   { id: "or-drive", label: "source resistance per diode-OR load", unit: "Ω", sense: "max" },
   { id: "delay-fall", label: "propagation delay, output falling (t_PHL)", unit: "s", sense: "max" },
   { id: "delay-rise", label: "propagation delay, output rising (t_PLH)", unit: "s", sense: "max" },
+  { id: "clamp-current", label: "clamped output's sink current, I_C + loads, within the knee its loads' margins assume", unit: "A", sense: "max" },
 ] as const;
 
 export type ConstraintId = (typeof CONSTRAINTS)[number]["id"];
@@ -149,7 +151,9 @@ function driveFor(ctx: EvalContext, s: Situation, values: CellValues, env: CellE
     vHigh = Math.min(vHigh, env.vccVolts - leak * rc);
   }
   if (s.def.inputKind !== "or") {
-    return { vLowMaxVolts: ctx.driverLowVolts?.(env) ?? env.dev.vCESatVolts, vHighMinVolts: vHigh, orSourceAmps: 0, orSourceOhms: Infinity, orSourceMaxAmps: 0 };
+    // The driver's R_C at its high end: orSourceMinOhms gives it at its low end.
+    const andSourceOhms = (ctx.orSourceMinOhms(values, tol) * (1 + tol)) / Math.max(1e-9, 1 - tol);
+    return { vLowMaxVolts: ctx.driverLowVolts?.(env) ?? env.dev.vCESatVolts, vHighMinVolts: vHigh, orSourceAmps: 0, orSourceOhms: Infinity, orSourceMaxAmps: 0, andSourceOhms };
   }
   const rs = ctx.orSourceOhms(s, values, tol, env);
   const rsMin = ctx.orSourceMinOhms(values, tol);
@@ -249,6 +253,7 @@ export function evaluateSituation(
   const stresses = detail ? new Map<string, ComponentStress>() : undefined;
   const delayMax = ctx.gateDelayMaxSeconds;
   const needTiming = delayMax !== undefined || detail;
+  const clampBound = def.speedUp?.clamp ? clampBoundAmps(ctx.corners[0]!.env) : 0;
 
   for (let c = 0; c < ctx.corners.length; c++) {
     const corner = ctx.corners[c]!;
@@ -270,6 +275,10 @@ export function evaluateSituation(
       note(CI["noise-margin-low"], op.noiseMarginLowVolts, o.noiseMarginMinVolts);
       note(CI["noise-margin-high"], op.noiseMarginHighVolts, o.noiseMarginMinVolts);
       if (o.collectorCurrentMinAmps > 0) note(CI["collector-current"], op.iCAmps, o.collectorCurrentMinAmps);
+      // A clamped output's low level rises with its current (V_BE − V_F); its loads take their
+      // low-state margins against the level at the bound current (clampedLowVolts), so the cell
+      // keeps its sink current within that bound.
+      if (clampBound > 0) note(CI["clamp-current"], op.iCAmps + op.iLoadAmps, clampBound);
       if (o.turnOffRatioMin > 0) {
         const ratio = op.iCAmps > 0 ? (op.iTurnOffAmps * env.dev.betaMin) / op.iCAmps : Infinity;
         note(CI["turn-off-current"], ratio, o.turnOffRatioMin);

@@ -71,6 +71,7 @@ const RELAX: Record<string, string> = {
   "or-drive": "fewer diode-OR loads per net",
   "delay-fall": "a slower budget (longer delay or lower clock), less wiring capacitance, or a lower fan-out",
   "delay-rise": "a slower budget (longer delay or lower clock), less wiring capacitance, or a lower fan-out",
+  "clamp-current": "a lower fan-out (buffer the heaviest nets), a higher least resistor value, or a transistor with a higher knee current (IKF)",
 };
 
 function labelOf(id: string): string {
@@ -104,6 +105,8 @@ interface UniformEnv {
   wired?: boolean;
   /** Fast variants in place of the basic cells, and the speed-up capacitor (absent: basic). */
   plan?: VariantPlan;
+  /** SizingOptions.quickFailure: report a failure without searching for what blocks it. */
+  quick?: boolean;
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -959,9 +962,12 @@ function attemptAll(netlist: CellNetlist, u: UniformEnv): Attempt {
   const defs = defsAt(found.t);
   const promoted = nandCells.filter((c) => defs[c] === variant);
   const smallest = promoted.reduce((m, c) => Math.min(m, fanoutOf(c)), Infinity);
+  const allNand = promoted.length === nandCells.length;
   const note =
-    `the basic NAND cannot drive a fan-out of ${smallest} at every corner; ` +
-    `${promoted.length} cell${promoted.length === 1 ? " with that fan-out or more uses" : "s with that fan-out or more use"} the high-fan-out variant (${variant.source})`;
+    smallest === 0 && allNand
+      ? `no design keeps the basic NAND even on its unloaded cells (fan-out 0) at every corner; all ${promoted.length} NAND cell${promoted.length === 1 ? "" : "s"} use the high-fan-out variant (${variant.source})`
+      : `the basic NAND cannot drive a fan-out of ${smallest} at every corner; ` +
+        `${promoted.length} cell${promoted.length === 1 ? " with that fan-out or more uses" : "s with that fan-out or more use"} the high-fan-out variant (${variant.source})`;
   return { outcome: found.out, defs, triedVariant: true, variantNote: note };
 }
 
@@ -969,6 +975,7 @@ function attemptAll(netlist: CellNetlist, u: UniformEnv): Attempt {
  *  reason: when the same cells fit once the tied collectors' leakage and capacitance are left
  *  out, the diagnostic says so and names building without --wired-and as what relaxes it. */
 function explainFailure(netlist: CellNetlist, u: UniformEnv, first: Attempt): Diagnostic {
+  if (u.quick && !first.outcome.ok) return failureDiagnostic(first.outcome.failure, u.o, first.triedVariant);
   // After fast variants were tried, explain the failure of the most capable plan.
   if (first.plan && !u.plan) u = { ...u, plan: first.plan };
   if (first.gateDelayMaxSeconds !== undefined) u = { ...u, gateDelayMaxSeconds: first.gateDelayMaxSeconds };
@@ -1301,7 +1308,7 @@ export function sizeDesign(netlist: CellNetlist, options: SizingOptions): StageR
     return { diagnostics };
   }
   const { corners, nominal } = buildCorners(o);
-  const u: UniformEnv = { o, corners, nominal, grid };
+  const u: UniformEnv = { o, corners, nominal, grid, ...(options.quickFailure ? { quick: true } : {}) };
   if (o.gateDelayMaxSeconds !== undefined) u.gateDelayMaxSeconds = o.gateDelayMaxSeconds;
 
   if (o.supplyVolts * (1 + o.supplyTolerance) > DEFAULTS.cautionSupplyVolts) {

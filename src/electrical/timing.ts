@@ -311,11 +311,19 @@ export function cellTiming(t: TimingInputs): CellTiming {
     const rs = t.drive.orSourceOhms;
     if (vCond > vIn50 && Number.isFinite(rs) && vcc > vCond) tNode = rs * cIn * Math.log((vcc - vIn50) / (vcc - vCond));
   }
-  // The kick (the stepped input diode's stored and depletion charge) arrives during the input's
-  // edge: ngspice shows the base current peak within the edge, not a transit time later. What it
-  // brings beyond the turn-on charge (also a negative qBase: charge a speed-up capacitor
-  // delivered early) is base charge the output's fall starts with.
-  const tBase = Math.max(0, qBase - qKick) / iB1;
+  // The kick (the stepped input diode's stored and depletion charge) arrives as the diode
+  // recovers: its storage time is τ_T·ln(1 + I_F/I_R) (junction-diode reverse recovery, Millman
+  // & Halkias ch. 3), with I_F the input's low-state current and I_R what the driver's pull-up
+  // can send back through it. A stiff step (ngspice's check benches) recovers it within the
+  // edge; a DTL driver, whose R_C is of the order of the load's pull-up, takes about τ_T·ln 2.
+  // What the kick brings beyond the turn-on charge (also a negative qBase: charge a speed-up
+  // capacitor delivered early) is base charge the output's fall starts with.
+  let tKick = 0;
+  const rSrc = t.drive.andSourceOhms;
+  if (andInput && qKick > 0 && rSrc !== undefined && rSrc > 0 && ttd > 0) {
+    tKick = diodeStorageSeconds(ttd, op.inputLowAmps, Math.max(1e-9, vcc - vPOn) / rSrc);
+  }
+  const tBase = Math.max(tKick, Math.max(0, qBase - qKick) / iB1);
   const qHead = Math.max(0, qKick - qBase);
   // Speed-up capacitors of diode-AND loads: their charge is sunk as the output falls.
   const qLoadSu = load.speedUpChargeCoulombs ?? 0;
@@ -383,6 +391,14 @@ export function cellTiming(t: TimingInputs): CellTiming {
     tRiseSeconds: tRise,
     loadCapacitanceFarads: load.capacitanceFarads + cTiedRise,
   };
+}
+
+/** A junction diode's storage time when its forward current I_F is reversed to I_R: the stored
+ *  charge τ_T·I_F is cleared in τ_T·ln(1 + I_F/I_R) (charge control of reverse recovery). */
+export function diodeStorageSeconds(ttSeconds: number, iFAmps: number, iRAmps: number): number {
+  if (!(ttSeconds > 0) || !(iFAmps > 0)) return 0;
+  if (!(iRAmps > 0)) return Infinity;
+  return ttSeconds * Math.log1p(iFAmps / iRAmps);
 }
 
 /**

@@ -71,6 +71,10 @@ export interface SizingOptions {
   capacitorMaxFarads?: number;
   /** Skip the search and use these values (per cell id, e.g. { nand: { rpOhms: 5000, ... } }). */
   forcedValues?: Record<string, Record<string, number>>;
+  /** When the request cannot be met, report the first failure without searching for the
+   *  constraint that blocks it and the best value reachable (a dozen more sizings). For callers
+   *  with a fallback (the pipeline's NAND-only mapping), which explain only if it fails too. */
+  quickFailure?: boolean;
 }
 
 /** One checked constraint at its worst corner. */

@@ -127,20 +127,27 @@ export function synthesize(text: string, file: string, opts: SynthesisOptions): 
     // Map and size. When the mixed mapping's NOR cells cannot be sized (diode-OR inputs share
     // their driver's current, so heavy fan-out defeats them), map again with NAND cells only,
     // unless the user chose the cell families.
-    const attempt = (cells: CellChoice) => {
+    // The mixed attempt that has a fallback reports its failure without the search for what
+    // blocks it (a dozen more sizings, minutes on a large design); that search runs only when
+    // the NAND-only mapping fails as well.
+    const fallback = opts.cells === "mixed" && !opts.cellsGiven;
+    const attempt = (cells: CellChoice, quickFailure = false) => {
       // Other families than the optimizer priced for: optimize again for them.
       const again = cells === opts.cells ? undefined : optimizeDesign(g, { stateNames: keptNames, maxFanin: opts.maxFanin, level: opts.opt ?? 2, cells, ...mapExtras });
       const m = mapToCells(again?.graph ?? optimized, { stateNames: keptNames, maxFanin: opts.maxFanin, cells, ...mapExtras });
-      return { mapped: m, sized: m.value ? sizeDesign(m.value, opts.sizing) : undefined, report: again?.report ?? opt.report };
+      return { mapped: m, sized: m.value ? sizeDesign(m.value, quickFailure ? { ...opts.sizing, quickFailure } : opts.sizing) : undefined, report: again?.report ?? opt.report };
     };
-    let { mapped, sized, report } = attempt(opts.cells);
+    let { mapped, sized, report } = attempt(opts.cells, fallback);
     const fallbackNotes: string[] = [];
-    if (opts.cells === "mixed" && !opts.cellsGiven && sized && !sized.value && sized.diagnostics.some((d) => d.code === "GW5001")) {
+    if (fallback && sized && !sized.value && sized.diagnostics.some((d) => d.code === "GW5001")) {
       const retry = attempt("nand");
       if (retry.sized?.value) {
         const why = sized.diagnostics.find((d) => d.code === "GW5001")!.message;
         fallbackNotes.push(`The mixed NAND/NOR mapping could not be sized (${why}); the design was mapped with NAND cells only.`);
         ({ mapped, sized, report } = retry);
+      } else if (mapped.value) {
+        // Neither fits: explain the mixed mapping's failure in full.
+        sized = sizeDesign(mapped.value, opts.sizing);
       }
     }
     appendDiagnostics(diagnostics, capDiagnostics(mapped.diagnostics, file));

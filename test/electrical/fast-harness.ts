@@ -58,6 +58,9 @@ export interface Case {
   extraFarads?: number;
   /** Diode-OR inputs: the driver's pull-up. */
   rs?: number;
+  /** Diode-AND inputs, estimate only: a driver's pull-up behind the rising input (absent: the
+   *  stiff step the benches use). */
+  andSourceOhms?: number;
 }
 
 /** Transient of one case: levels and t_PHL/t_PLH at 50 % of each swing. The input is held
@@ -123,7 +126,7 @@ export function analytic(c: Case): CellTiming {
   };
   const drive: InputDrive =
     def.inputKind === "and"
-      ? { vLowMaxVolts: 0.2, vHighMinVolts: vcc, orSourceAmps: 0, orSourceOhms: Infinity, orSourceMaxAmps: 0 }
+      ? { vLowMaxVolts: 0.2, vHighMinVolts: vcc, orSourceAmps: 0, orSourceOhms: Infinity, orSourceMaxAmps: 0, ...(c.andSourceOhms ? { andSourceOhms: c.andSourceOhms } : {}) }
       : { vLowMaxVolts: 0.05, vHighMinVolts: clamp, orSourceAmps: (vcc - clamp) / c.rs!, orSourceOhms: c.rs!, orSourceMaxAmps: (vcc - clamp) / c.rs! };
   const op = def.analyze(values, env, load, drive);
   return cellTiming({ def, values, env, load, drive, op, npn: d.npn.params, diode: d.diode.params, fanin: 2, inputWiringFarads: 0, schottky: sch.params });

@@ -1,7 +1,10 @@
 // Charge-control switching times (Moll, Proc. IRE 42, 1954; Millman & Taub, Pulse, Digital and
 // Switching Waveforms — formulas from memory, checks derived from them).
 import { describe, expect, it } from "vitest";
+import { nandCell } from "../../src/cells/nand/index.js";
+import { analytic } from "./fast-harness.js";
 import {
+  diodeStorageSeconds,
   fallTimeSeconds,
   loadDischargeSeconds,
   meanJunctionCapacitanceFarads,
@@ -69,5 +72,23 @@ describe("load discharge against the Miller current", () => {
     // i(0) = 3 pC / 0.3 ns = 10 mA, half of i_∞: Q(t) = i_∞·t − 10 mA·τ·(1 − e^(−t/τ)).
     const q = (x: number) => 20e-3 * x - 10e-3 * 6e-9 * (1 - Math.exp(-x / 6e-9));
     expect(q(warm)).toBeCloseTo(100e-12, 15);
+  });
+});
+
+// The input diode's reverse recovery, t_s = τ_T·ln(1 + I_F/I_R) (charge control of a junction
+// diode's stored charge; Millman & Halkias, Integrated Electronics, ch. 3, from memory): the kick
+// a rising diode-AND input hands to the base waits for it.
+describe("input diode recovery", () => {
+  it("τ_T 4 ns, I_F = I_R: 4 ns·ln 2 = 2.77 ns; I_R = 10·I_F: 4 ns·ln 1.1 = 0.381 ns", () => {
+    expect(diodeStorageSeconds(4e-9, 1e-3, 1e-3)).toBeCloseTo(2.7726e-9, 12);
+    expect(diodeStorageSeconds(4e-9, 1e-3, 10e-3)).toBeCloseTo(0.38124e-9, 12);
+  });
+  it("a DTL driver's pull-up behind the input delays the fall by at least the recovery; a stiff step does not", () => {
+    const c = { def: nandCell, values: { rpOhms: 4300, rbOhms: 5100, rcOhms: 2000 }, vcc: 5, loads: 6 };
+    const stiff = analytic(c).tPHLSeconds;
+    const driven = analytic({ ...c, andSourceOhms: 4300 }).tPHLSeconds;
+    // I_F ≈ (5 − 0.75 − 0.2)/4.3k ≈ 0.94 mA, I_R ≈ (5 − 2.2)/4.3k ≈ 0.65 mA: t_s ≈ 4 ns·ln 2.4 ≈ 3.5 ns.
+    expect(driven).toBeGreaterThanOrEqual(3e-9);
+    expect(driven).toBeGreaterThan(stiff);
   });
 });
