@@ -158,7 +158,8 @@ function hasCycle(g: LogicGraph, within: Set<number>, cuts: Set<number>): boolea
  * Returns undefined if the graph still has a loop (cuts insufficient).
  */
 export function evaluationOrder(g: LogicGraph, cuts: ReadonlySet<number>): number[] | undefined {
-  const n = g.nodes.length;
+  const nodes = g.nodes;
+  const n = nodes.length;
   const indeg = new Int32Array(n);
   // Readers of each node as flat lists (start[f] .. start[f + 1]), in ascending reader order.
   const start = new Int32Array(n + 1);
@@ -166,28 +167,32 @@ export function evaluationOrder(g: LogicGraph, cuts: ReadonlySet<number>): numbe
   for (const c of cuts) if (c >= 0 && c < n) isCut[c] = 1;
   for (let v = 0; v < n; v++) {
     if (isCut[v]) continue;
-    for (const f of g.nodes[v]!.fanins) {
-      indeg[v]!++;
-      start[f + 1]!++;
-    }
+    const fanins = nodes[v]!.fanins;
+    indeg[v] = fanins.length;
+    for (let i = 0; i < fanins.length; i++) start[fanins[i]! + 1]!++;
   }
   for (let f = 0; f < n; f++) start[f + 1]! += start[f]!;
   const fill = start.slice(0, n);
   const users = new Int32Array(start[n]!);
   for (let v = 0; v < n; v++) {
     if (isCut[v]) continue;
-    for (const f of g.nodes[v]!.fanins) users[fill[f]!++] = v;
+    const fanins = nodes[v]!.fanins;
+    for (let i = 0; i < fanins.length; i++) users[fill[fanins[i]!]!++] = v;
   }
   const queue = new Int32Array(n);
   let tail = 0;
   for (let v = 0; v < n; v++) if (indeg[v] === 0) queue[tail++] = v;
   let head = 0;
-  while (head < queue.length && head < tail) {
+  while (head < tail) {
     const v = queue[head++]!;
-    for (let k = start[v]!; k < start[v + 1]!; k++) {
+    const end = start[v + 1]!;
+    for (let k = start[v]!; k < end; k++) {
       const u = users[k]!;
       if (--indeg[u]! === 0) queue[tail++] = u;
     }
   }
-  return tail === n ? Array.from(queue) : undefined;
+  if (tail !== n) return undefined;
+  const order: number[] = new Array(n);
+  for (let k = 0; k < n; k++) order[k] = queue[k]!;
+  return order;
 }

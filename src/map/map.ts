@@ -109,167 +109,92 @@ export function mapToCells(source: LogicGraph, opts: MapOptions): StageResult<Ce
 type Pol = 0 | 1; // 0: the node's value, 1: its complement
 
 // How a (node, polarity) is made, in the dynamic program's arrays.
-const K_LEAF = 1;
-const K_CONST = 2;
-const K_PASS = 3;
-const K_NAND = 4;
-const K_NOR = 5;
-const K_INV = 6;
-const K_XOR_NAND = 7;
-const K_XOR_NOR = 8;
-
-type Choice =
-  | { kind: "leaf" }
-  | { kind: "const"; value: 0 | 1 }
-  | { kind: "pass"; from: number; pol: Pol }
-  | { kind: "cell"; fn: CellFunction; operands: [number, Pol][] }
-  | { kind: "inv"; fn: CellFunction }
-  | { kind: "xor4"; fn: CellFunction; a: number; b: number };
+export const K_LEAF = 1;
+export const K_CONST = 2;
+export const K_PASS = 3;
+export const K_NAND = 4;
+export const K_NOR = 5;
+export const K_INV = 6;
+export const K_XOR_NAND = 7;
+export const K_XOR_NOR = 8;
 
 /** One mapping of the fan-in-limited graph `g` with the given families. */
 function mapFamily(g: LogicGraph, source: LogicGraph, opts: MapOptions, allow: CellChoice, model: CostModel): CellNetlist {
-  const cost = model.cellCost;
-  const nandOk = allow !== "nor";
-  const norOk = allow !== "nand";
   const stateSet = new Set(opts.stateNames);
   const cutIds = new Set<number>();
-  g.nodes.forEach((n, id) => {
-    if (n.op === "buf" && n.name !== undefined && stateSet.has(n.name)) cutIds.add(id);
-  });
+  const nodes = g.nodes;
+  const isCut = new Uint8Array(nodes.length);
+  for (let id = 0; id < nodes.length; id++) {
+    const n = nodes[id]!;
+    if (n.op === "buf" && n.name !== undefined && stateSet.has(n.name)) {
+      cutIds.add(id);
+      isCut[id] = 1;
+    }
+  }
   const order = evaluationOrder(g, cutIds);
   if (!order) throw new Error("mapToCells: loop not broken at the state signals");
 
-  const invFn: CellFunction = !norOk ? "nand" : !nandOk ? "nor" : cost("nor", 1) <= cost("nand", 1) ? "nor" : "nand";
-  const invCost = cost(invFn, 1);
-  const INF = Number.POSITIVE_INFINITY;
-  // The dynamic program over flat arrays (index 2·id + polarity): the cheapest cost and how it
-  // is made, as a kind code and one number; Choice objects are made only for what is realized.
-  const N2 = 2 * g.nodes.length;
-  const costOf = new Float64Array(N2).fill(INF);
-  const kindOf = new Uint8Array(N2);
-  const auxOf = new Int32Array(N2);
-  const cellCosts = new Map<string, number>();
-  const cellCost = (fn: CellFunction, k: number) => {
-    const key = `${fn}${k}`;
-    let c = cellCosts.get(key);
-    if (c === undefined) cellCosts.set(key, (c = cost(fn, k)));
-    return c;
-  };
-
-  const consider = (at: number, c: number, kind: number, aux: number) => {
-    if (c < costOf[at]!) {
-      costOf[at] = c;
-      kindOf[at] = kind;
-      auxOf[at] = aux;
-    }
-  };
-
-  for (const id of order) {
-    const n = g.nodes[id]!;
-    const p0 = 2 * id;
-    const p1 = p0 + 1;
-    if (n.op === "input" || cutIds.has(id)) {
-      consider(p0, 0, K_LEAF, 0);
-    } else if (n.op === "const0" || n.op === "const1") {
-      const v = n.op === "const1" ? 1 : 0;
-      consider(p0, 0, K_CONST, v);
-      consider(p1, 0, K_CONST, v ? 0 : 1);
-      continue;
-    } else if (n.op === "buf") {
-      const f = n.fanins[0]!;
-      consider(p0, costOf[2 * f]!, K_PASS, 2 * f);
-      consider(p1, costOf[2 * f + 1]!, K_PASS, 2 * f + 1);
-    } else if (n.op === "not") {
-      const f = n.fanins[0]!;
-      consider(p0, costOf[2 * f + 1]!, K_PASS, 2 * f + 1);
-      consider(p1, costOf[2 * f]!, K_PASS, 2 * f);
-    } else if (n.op === "and" || n.op === "or") {
-      const k = n.fanins.length;
-      let sumPos = 0;
-      let sumNeg = 0;
-      for (const f of n.fanins) {
-        sumPos += costOf[2 * f]!;
-        sumNeg += costOf[2 * f + 1]!;
-      }
-      // aux: the polarity every operand is taken in.
-      if (n.op === "and") {
-        // !AND(x) = NAND(x);  AND(x) = NOR(!x)
-        if (nandOk) consider(p1, cellCost("nand", k) + sumPos, K_NAND, 0);
-        if (norOk) consider(p0, cellCost("nor", k) + sumNeg, K_NOR, 1);
-      } else {
-        // !OR(x) = NOR(x);  OR(x) = NAND(!x)
-        if (norOk) consider(p1, cellCost("nor", k) + sumPos, K_NOR, 0);
-        if (nandOk) consider(p0, cellCost("nand", k) + sumNeg, K_NAND, 1);
-      }
-    } else if (n.op === "xor") {
-      const [a, b] = n.fanins as [number, number];
-      const base = costOf[2 * a]! + costOf[2 * b]!;
-      if (nandOk) consider(p0, 4 * cellCost("nand", 2) + base, K_XOR_NAND, 0);
-      if (norOk) consider(p1, 4 * cellCost("nor", 2) + base, K_XOR_NOR, 0);
-    }
-    // Either polarity from the other through an inverter.
-    consider(p0, costOf[p1]! + invCost, K_INV, 0);
-    consider(p1, costOf[p0]! + invCost, K_INV, 0);
-  }
-  const choiceMemo: (Choice | undefined)[] = new Array(N2);
-  const choiceOf = (id: number, pol: Pol): Choice => {
-    const at = 2 * id + pol;
-    let ch = choiceMemo[at];
-    if (ch) return ch;
-    const aux = auxOf[at]!;
-    const n = g.nodes[id]!;
-    switch (kindOf[at]) {
-      case K_LEAF:
-        ch = { kind: "leaf" };
-        break;
-      case K_CONST:
-        ch = { kind: "const", value: aux as 0 | 1 };
-        break;
-      case K_PASS:
-        ch = { kind: "pass", from: aux >> 1, pol: (aux & 1) as Pol };
-        break;
-      case K_NAND:
-      case K_NOR:
-        ch = { kind: "cell", fn: kindOf[at] === K_NAND ? "nand" : "nor", operands: n.fanins.map((f) => [f, aux as Pol]) };
-        break;
-      case K_INV:
-        ch = { kind: "inv", fn: invFn };
-        break;
-      case K_XOR_NAND:
-      case K_XOR_NOR:
-        ch = { kind: "xor4", fn: kindOf[at] === K_XOR_NAND ? "nand" : "nor", a: n.fanins[0]!, b: n.fanins[1]! };
-        break;
-      default:
-        throw new Error("mapToCells: a node without a realization");
-    }
-    choiceMemo[at] = ch;
-    return ch;
+  const { kindOf, auxOf, invFn } = chooseRealizations(g, isCut, order, allow, model);
+  const N2 = 2 * nodes.length;
+  const checkKind = (at: number) => {
+    const k = kindOf[at]!;
+    if (k < K_LEAF || k > K_XOR_NOR) throw new Error("mapToCells: a node without a realization");
+    return k;
   };
 
   // ----- realization -------------------------------------------------------------------------
   const nets: Net[] = [];
   const cells: CellInstance[] = [];
-  const sourceNames = new Set<string>();
-  for (const n of source.nodes) if (n.name !== undefined) sourceNames.add(n.name);
-  for (const p of source.outputs) sourceNames.add(p.name);
+  // Names. A net the source did not name gets `_n<k>`, k counting up; a name is never given
+  // twice and a generated one never takes a source name. Generated `_n<k>` names can only meet
+  // the names that begin with "_n" (a suffixed name `<base>_<k>` never has that form), so only
+  // those are looked up for them.
+  const isGeneratedForm = (x: string) => x.charCodeAt(0) === 95 && x.charCodeAt(1) === 110; // "_n"
+  const reservedN = new Set<string>();
+  let sourceNamesMade: Set<string> | undefined;
+  const sourceNames = (): Set<string> => {
+    if (!sourceNamesMade) {
+      sourceNamesMade = new Set<string>();
+      for (const n of source.nodes) if (n.name !== undefined) sourceNamesMade.add(n.name);
+      for (const p of source.outputs) sourceNamesMade.add(p.name);
+    }
+    return sourceNamesMade;
+  };
+  for (const n of source.nodes) if (n.name !== undefined && isGeneratedForm(n.name)) reservedN.add(n.name);
+  for (const p of source.outputs) if (isGeneratedForm(p.name)) reservedN.add(p.name);
   const usedNames = new Set<string>();
+  const useName = (x: string) => {
+    usedNames.add(x);
+    if (isGeneratedForm(x)) reservedN.add(x);
+  };
   let genCounter = 0;
   const uniqueName = (base?: string): [string, boolean] => {
-    if (base !== undefined && !usedNames.has(base)) {
-      usedNames.add(base);
+    if (base === undefined) {
+      for (;;) {
+        const cand = `_n${++genCounter}`;
+        if (!reservedN.has(cand)) return [cand, false];
+      }
+    }
+    if (!usedNames.has(base)) {
+      useName(base);
       return [base, true];
     }
     for (;;) {
-      const cand = base !== undefined ? `${base}_${++genCounter}` : `_n${++genCounter}`;
-      if (!usedNames.has(cand) && !sourceNames.has(cand)) {
-        usedNames.add(cand);
+      const cand = `${base}_${++genCounter}`;
+      if (!usedNames.has(cand) && !sourceNames().has(cand)) {
+        useName(cand);
         return [cand, false];
       }
     }
   };
   const newNet = (driver: NetDriver, name?: string, keepName = false): number => {
-    const [nm, named] = keepName ? [name!, true] : uniqueName(name);
-    if (keepName) usedNames.add(nm);
+    let nm: string;
+    let named: boolean;
+    if (keepName) {
+      nm = name!;
+      named = true;
+      useName(nm);
+    } else [nm, named] = uniqueName(name);
     return nets.push({ index: nets.length, name: nm, named, driver, loads: [] }) - 1;
   };
   const addCell = (fn: CellFunction, inputs: number[], out?: number): number => {
@@ -277,13 +202,12 @@ function mapFamily(g: LogicGraph, source: LogicGraph, opts: MapOptions, allow: C
     const output = out ?? newNet({ kind: "cell", cell: index });
     nets[output]!.driver = { kind: "cell", cell: index };
     cells.push({ index, fn, inputs, output });
-    inputs.forEach((net, pin) => nets[net]!.loads.push({ cell: index, pin }));
+    for (let pin = 0; pin < inputs.length; pin++) nets[inputs[pin]!]!.loads.push({ cell: index, pin });
     return output;
   };
 
   // Net of each (node, polarity), at 2·id + polarity (-1: not realized yet).
   const memo = new Int32Array(N2).fill(-1);
-  const netOfNode = (id: number): number => memo[2 * id]!;
   // Input and state nets first: names exactly as in the source.
   const inputs = g.inputs.map((p, port) => {
     const net = newNet({ kind: "input", port }, p.name, true);
@@ -292,93 +216,74 @@ function mapFamily(g: LogicGraph, source: LogicGraph, opts: MapOptions, allow: C
   });
   const stateNets: number[] = [];
   for (const id of cutIds) {
-    const net = newNet({ kind: "tie", value: 0 }, g.nodes[id]!.name!, true); // driver bound below
+    const net = newNet({ kind: "tie", value: 0 }, nodes[id]!.name!, true); // driver bound below
     memo[2 * id] = net;
     stateNets.push(net);
   }
 
-  // Which (node, polarity) pairs are needed: top-down over the choices.
-  const need = new Uint8Array(N2);
-  const roots: [number, Pol][] = [
-    ...g.outputs.map((p) => [p.node, 0] as [number, Pol]),
-    ...[...cutIds].map((id) => [g.nodes[id]!.fanins[0]!, 0] as [number, Pol]),
-  ];
-  const markStack = [...roots];
-  while (markStack.length) {
-    const [id, pol] = markStack.pop()!;
-    if (need[2 * id + pol]) continue;
-    need[2 * id + pol] = 1;
-    const ch = choiceOf(id, pol);
-    switch (ch.kind) {
-      case "pass":
-        markStack.push([ch.from, ch.pol]);
-        break;
-      case "inv":
-        markStack.push([id, (1 - pol) as Pol]);
-        break;
-      case "cell":
-        markStack.push(...ch.operands);
-        break;
-      case "xor4":
-        markStack.push([ch.a, 0], [ch.b, 0]);
-        break;
-      default:
-        break;
-    }
-  }
+  const need = markNeeded(g, cutIds, kindOf, auxOf);
 
-  const realize = (id: number, pol: Pol): number => {
-    const hit = memo[2 * id + pol]!;
+  const realize = (at: number): number => {
+    const hit = memo[at]!;
     if (hit >= 0) return hit;
-    const ch = choiceOf(id, pol);
-    const name = pol === 0 ? g.nodes[id]!.name : undefined;
+    const kind = checkKind(at);
+    const aux = auxOf[at]!;
+    const id = at >> 1;
+    const name = (at & 1) === 0 ? nodes[id]!.name : undefined;
     let net: number;
-    switch (ch.kind) {
-      case "leaf":
+    switch (kind) {
+      case K_LEAF:
         throw new Error("leaf without a net");
-      case "const":
-        net = newNet({ kind: "tie", value: ch.value });
+      case K_CONST:
+        net = newNet({ kind: "tie", value: aux as 0 | 1 });
         break;
-      case "pass":
-        net = memo[2 * ch.from + ch.pol]!;
+      case K_PASS:
+        net = memo[aux]!;
         if (net < 0) throw new Error("operand realized out of order");
         break;
-      case "inv": {
-        const other = memo[2 * id + (1 - pol)]!;
+      case K_INV: {
+        const other = memo[at ^ 1]!;
         if (other < 0) throw new Error("inverter operand realized out of order");
-        net = addCell(ch.fn, [other], newNet({ kind: "tie", value: 0 }, name));
+        net = addCell(invFn, [other], newNet({ kind: "tie", value: 0 }, name));
         break;
       }
-      case "cell": {
-        const ins = ch.operands.map(([f, p]) => memo[2 * f + p]!);
-        if (ins.some((x) => x < 0)) throw new Error("cell operand realized out of order");
-        net = addCell(ch.fn, ins, newNet({ kind: "tie", value: 0 }, name));
+      case K_NAND:
+      case K_NOR: {
+        const fanins = nodes[id]!.fanins;
+        const ins: number[] = new Array(fanins.length);
+        for (let i = 0; i < fanins.length; i++) {
+          const x = memo[2 * fanins[i]! + aux]!;
+          if (x < 0) throw new Error("cell operand realized out of order");
+          ins[i] = x;
+        }
+        net = addCell(kind === K_NAND ? "nand" : "nor", ins, newNet({ kind: "tie", value: 0 }, name));
         break;
       }
-      case "xor4": {
-        const a = memo[2 * ch.a]!;
-        const b = memo[2 * ch.b]!;
-        const n1 = addCell(ch.fn, [a, b]);
-        const n2 = addCell(ch.fn, [a, n1]);
-        const n3 = addCell(ch.fn, [b, n1]);
-        net = addCell(ch.fn, [n2, n3], newNet({ kind: "tie", value: 0 }, name));
+      default: {
+        // K_XOR_NAND, K_XOR_NOR: the four-gate XOR.
+        const fn: CellFunction = kind === K_XOR_NAND ? "nand" : "nor";
+        const fanins = nodes[id]!.fanins;
+        const a = memo[2 * fanins[0]!]!;
+        const b = memo[2 * fanins[1]!]!;
+        const n1 = addCell(fn, [a, b]);
+        const n2 = addCell(fn, [a, n1]);
+        const n3 = addCell(fn, [b, n1]);
+        net = addCell(fn, [n2, n3], newNet({ kind: "tie", value: 0 }, name));
         break;
       }
     }
-    memo[2 * id + pol] = net;
+    memo[at] = net;
     return net;
   };
   // Bottom-up in evaluation order; for each node the polarity realized directly first, so an
   // inverter finds its operand.
-  for (const id of order) {
-    for (const pol of [0, 1] as const) {
-      if (!need[2 * id + pol] || memo[2 * id + pol]! >= 0) continue;
-      const ch = choiceOf(id, pol);
-      if (ch.kind === "inv") {
-        const other = (1 - pol) as Pol;
-        if (memo[2 * id + other]! < 0) realize(id, other);
-      }
-      realize(id, pol);
+  for (let oi = 0; oi < order.length; oi++) {
+    const id = order[oi]!;
+    for (let pol = 0; pol < 2; pol++) {
+      const at = 2 * id + pol;
+      if (!need[at] || memo[at]! >= 0) continue;
+      if (kindOf[at] === K_INV && memo[at ^ 1]! < 0) realize(at ^ 1);
+      realize(at);
     }
   }
 
@@ -387,6 +292,7 @@ function mapFamily(g: LogicGraph, source: LogicGraph, opts: MapOptions, allow: C
   const stateNetSet = new Set(stateNets);
   // Nets moved onto another (moveInto), and a node's net with the moves followed.
   const movedTo = new Map<number, number>();
+  const dead = new Set<number>();
   const netAt = (id: number, pol: Pol): number => {
     let net = memo[2 * id + pol]!;
     for (let next = movedTo.get(net); next !== undefined; next = movedTo.get(net)) net = next;
@@ -409,7 +315,7 @@ function mapFamily(g: LogicGraph, source: LogicGraph, opts: MapOptions, allow: C
     }
     src.loads = [];
     src.driver = { kind: "tie", value: 0 };
-    (src as Net & { dead?: boolean }).dead = true;
+    dead.add(from);
     // Every node realized as `from` is now realized as `target` (read through netAt).
     movedTo.set(from, target);
   };
@@ -427,7 +333,7 @@ function mapFamily(g: LogicGraph, source: LogicGraph, opts: MapOptions, allow: C
     reserved.add(target);
   };
   for (const id of cutIds) {
-    const f = g.nodes[id]!.fanins[0]!;
+    const f = nodes[id]!.fanins[0]!;
     bindOnto(netAt(f, 0), netAt(id, 0));
   }
   const outputs: { name: string; net: number }[] = [];
@@ -446,7 +352,7 @@ function mapFamily(g: LogicGraph, source: LogicGraph, opts: MapOptions, allow: C
       if (nets[net]!.name !== p.name) {
         usedNames.delete(nets[net]!.name);
         nets[net]!.name = p.name;
-        usedNames.add(p.name);
+        useName(p.name);
       }
       nets[net]!.named = true;
       reserved.add(net);
@@ -456,27 +362,177 @@ function mapFamily(g: LogicGraph, source: LogicGraph, opts: MapOptions, allow: C
   });
 
   // ----- compaction: drop emptied nets, renumber -----------------------------------------------
-  const alive = nets.filter((n) => !(n as Net & { dead?: boolean }).dead);
-  const renumber = new Map<number, number>();
-  alive.forEach((n, i) => renumber.set(n.index, i));
-  const finalNets: Net[] = alive.map((n, i) => {
-    const x: Net = { index: i, name: n.name, named: n.named, driver: n.driver, loads: n.loads };
-    if (n.outputPort !== undefined) x.outputPort = n.outputPort;
-    return x;
-  });
-  for (const c of cells) {
-    c.inputs = c.inputs.map((x) => renumber.get(x)!);
-    c.output = renumber.get(c.output)!;
+  let finalNets: Net[] = nets;
+  let renumbered = (x: number) => x;
+  if (dead.size) {
+    const renumber = new Int32Array(nets.length).fill(-1);
+    finalNets = [];
+    for (const n of nets) {
+      if (dead.has(n.index)) continue;
+      const i = finalNets.length;
+      renumber[n.index] = i;
+      const x: Net = { index: i, name: n.name, named: n.named, driver: n.driver, loads: n.loads };
+      if (n.outputPort !== undefined) x.outputPort = n.outputPort;
+      finalNets.push(x);
+    }
+    renumbered = (x: number) => renumber[x]!;
+    for (const c of cells) {
+      const ins = c.inputs;
+      for (let i = 0; i < ins.length; i++) ins[i] = renumber[ins[i]!]!;
+      c.output = renumber[c.output]!;
+    }
   }
   const netlist: CellNetlist = {
     name: source.name,
-    inputs: inputs.map((x) => renumber.get(x)!),
-    outputs: outputs.map((o) => ({ name: o.name, net: renumber.get(o.net)! })),
+    inputs: inputs.map(renumbered),
+    outputs: outputs.map((o) => ({ name: o.name, net: renumbered(o.net) })),
     nets: finalNets,
     cells,
-    stateNets: stateNets.map((x) => renumber.get(x)!),
+    stateNets: stateNets.map(renumbered),
     maxFanin: opts.maxFanin,
   };
-  void netOfNode;
   return netlist;
+}
+
+/**
+ * The dynamic program of the mapping: for every (node, polarity), at 2·id + polarity, how it is
+ * made most cheaply (a kind code K_* and one number: the operand's index for K_PASS, the
+ * operands' polarity for a cell, the value for K_CONST), and the inverter's function.
+ */
+export function chooseRealizations(
+  g: LogicGraph,
+  isCut: Uint8Array,
+  order: readonly number[],
+  allow: CellChoice,
+  model: CostModel,
+): { kindOf: Uint8Array; auxOf: Int32Array; invFn: CellFunction } {
+  const cost = model.cellCost;
+  const nandOk = allow !== "nor";
+  const norOk = allow !== "nand";
+  const nodes = g.nodes;
+  const invFn: CellFunction = !norOk ? "nand" : !nandOk ? "nor" : cost("nor", 1) <= cost("nand", 1) ? "nor" : "nand";
+  const invCost = cost(invFn, 1);
+  const INF = Number.POSITIVE_INFINITY;
+  // The dynamic program over flat arrays (index 2·id + polarity): the cheapest cost and how it
+  // is made, as a kind code and one number.
+  const N2 = 2 * nodes.length;
+  const costOf = new Float64Array(N2).fill(INF);
+  const kindOf = new Uint8Array(N2);
+  const auxOf = new Int32Array(N2);
+  // Cell costs by fan-in, per function (asked of the model once each).
+  const nandCosts: number[] = [];
+  const norCosts: number[] = [];
+  const cellCost = (fn: CellFunction, k: number) => {
+    const table = fn === "nand" ? nandCosts : norCosts;
+    let c = table[k];
+    if (c === undefined) table[k] = c = cost(fn, k);
+    return c;
+  };
+
+  const consider = (at: number, c: number, kind: number, aux: number) => {
+    if (c < costOf[at]!) {
+      costOf[at] = c;
+      kindOf[at] = kind;
+      auxOf[at] = aux;
+    }
+  };
+
+  for (let oi = 0; oi < order.length; oi++) {
+    const id = order[oi]!;
+    const n = nodes[id]!;
+    const p0 = 2 * id;
+    const p1 = p0 + 1;
+    const op = n.op;
+    if (op === "input" || isCut[id]) {
+      consider(p0, 0, K_LEAF, 0);
+    } else if (op === "const0" || op === "const1") {
+      const v = op === "const1" ? 1 : 0;
+      consider(p0, 0, K_CONST, v);
+      consider(p1, 0, K_CONST, v ? 0 : 1);
+      continue;
+    } else if (op === "buf") {
+      const f = n.fanins[0]!;
+      consider(p0, costOf[2 * f]!, K_PASS, 2 * f);
+      consider(p1, costOf[2 * f + 1]!, K_PASS, 2 * f + 1);
+    } else if (op === "not") {
+      const f = n.fanins[0]!;
+      consider(p0, costOf[2 * f + 1]!, K_PASS, 2 * f + 1);
+      consider(p1, costOf[2 * f]!, K_PASS, 2 * f);
+    } else if (op === "and" || op === "or") {
+      const fanins = n.fanins;
+      const k = fanins.length;
+      let sumPos = 0;
+      let sumNeg = 0;
+      for (let i = 0; i < k; i++) {
+        const f = fanins[i]!;
+        sumPos += costOf[2 * f]!;
+        sumNeg += costOf[2 * f + 1]!;
+      }
+      // aux: the polarity every operand is taken in.
+      if (op === "and") {
+        // !AND(x) = NAND(x);  AND(x) = NOR(!x)
+        if (nandOk) consider(p1, cellCost("nand", k) + sumPos, K_NAND, 0);
+        if (norOk) consider(p0, cellCost("nor", k) + sumNeg, K_NOR, 1);
+      } else {
+        // !OR(x) = NOR(x);  OR(x) = NAND(!x)
+        if (norOk) consider(p1, cellCost("nor", k) + sumPos, K_NOR, 0);
+        if (nandOk) consider(p0, cellCost("nand", k) + sumNeg, K_NAND, 1);
+      }
+    } else if (op === "xor") {
+      const a = n.fanins[0]!;
+      const b = n.fanins[1]!;
+      const base = costOf[2 * a]! + costOf[2 * b]!;
+      if (nandOk) consider(p0, 4 * cellCost("nand", 2) + base, K_XOR_NAND, 0);
+      if (norOk) consider(p1, 4 * cellCost("nor", 2) + base, K_XOR_NOR, 0);
+    }
+    // Either polarity from the other through an inverter.
+    consider(p0, costOf[p1]! + invCost, K_INV, 0);
+    consider(p1, costOf[p0]! + invCost, K_INV, 0);
+  }
+  return { kindOf, auxOf, invFn };
+}
+
+/** The (node, polarity) pairs a mapping realizes: from the outputs and the state signals'
+ *  operands down through the choices. */
+export function markNeeded(g: LogicGraph, cutIds: ReadonlySet<number>, kindOf: Uint8Array, auxOf: Int32Array): Uint8Array {
+  const nodes = g.nodes;
+  const N2 = 2 * nodes.length;
+  const checkKind = (at: number) => {
+    const k = kindOf[at]!;
+    if (k < K_LEAF || k > K_XOR_NOR) throw new Error("mapToCells: a node without a realization");
+    return k;
+  };
+  // A stack of 2·id + pol.
+  const need = new Uint8Array(N2);
+  let stack = new Int32Array(Math.max(16, g.outputs.length + cutIds.size));
+  let sp = 0;
+  const push = (at: number) => {
+    if (sp === stack.length) {
+      const bigger = new Int32Array(2 * stack.length);
+      bigger.set(stack);
+      stack = bigger;
+    }
+    stack[sp++] = at;
+  };
+  for (const p of g.outputs) push(2 * p.node);
+  for (const id of cutIds) push(2 * nodes[id]!.fanins[0]!);
+  while (sp > 0) {
+    const at = stack[--sp]!;
+    if (need[at]) continue;
+    need[at] = 1;
+    const kind = checkKind(at);
+    const aux = auxOf[at]!;
+    if (kind === K_PASS) push(aux);
+    else if (kind === K_INV) push(at ^ 1);
+    else if (kind === K_NAND || kind === K_NOR) {
+      const fanins = nodes[at >> 1]!.fanins;
+      for (let i = 0; i < fanins.length; i++) push(2 * fanins[i]! + aux);
+    } else if (kind === K_XOR_NAND || kind === K_XOR_NOR) {
+      const fanins = nodes[at >> 1]!.fanins;
+      push(2 * fanins[0]!);
+      push(2 * fanins[1]!);
+    }
+  }
+
+  return need;
 }

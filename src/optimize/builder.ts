@@ -5,6 +5,9 @@ import type { LogicGraph, LogicNode, LogicOp, Port } from "../logic/graph.js";
 import { evaluationOrder } from "../logic/loops.js";
 import { buildForm, type Form } from "./form.js";
 
+/** Operand lists up to this long are cleaned with plain arrays (quadratic, but short). */
+const SMALL_GATE = 16;
+
 export class GraphBuilder {
   readonly nodes: LogicNode[] = [];
   /** Structural hashing: nodes by a hash of (op, operands); equal hashes are compared. */
@@ -41,24 +44,26 @@ export class GraphBuilder {
 
   private hashed(op: LogicOp, fanins: number[]): number {
     let h = op === "and" ? 0x3c6ef372 : op === "or" ? 0x5be0cd19 : op === "xor" ? 0x1f83d9ab : 0x6a09e667;
-    for (const f of fanins) h = Math.imul(h ^ f, 0x01000193) ^ (h >>> 13);
-    const same = (id: number) => {
-      const n = this.nodes[id]!;
-      if (n.op !== op || n.fanins.length !== fanins.length) return false;
-      for (let i = 0; i < fanins.length; i++) if (n.fanins[i] !== fanins[i]) return false;
-      return true;
-    };
+    const k = fanins.length;
+    for (let i = 0; i < k; i++) h = Math.imul(h ^ fanins[i]!, 0x01000193) ^ (h >>> 13);
     const hit = this.table.get(h);
     if (hit !== undefined) {
       if (typeof hit === "number") {
-        if (same(hit)) return hit;
-      } else for (const id of hit) if (same(id)) return id;
+        if (this.same(hit, op, fanins)) return hit;
+      } else for (let j = 0; j < hit.length; j++) if (this.same(hit[j]!, op, fanins)) return hit[j]!;
     }
     const id = this.nodes.push({ op, fanins }) - 1;
     if (hit === undefined) this.table.set(h, id);
     else if (typeof hit === "number") this.table.set(h, [hit, id]);
     else hit.push(id);
     return id;
+  }
+
+  private same(id: number, op: LogicOp, fanins: readonly number[]): boolean {
+    const n = this.nodes[id]!;
+    if (n.op !== op || n.fanins.length !== fanins.length) return false;
+    for (let i = 0; i < fanins.length; i++) if (n.fanins[i] !== fanins[i]) return false;
+    return true;
   }
 
   not(a: number): number {
@@ -84,6 +89,39 @@ export class GraphBuilder {
   }
 
   private andOr(op: "and" | "or", args: number[]): number {
+    const absorbing = op === "and" ? 0 : 1;
+    if (args.length > SMALL_GATE) return this.andOrWide(op, args);
+    // Few operands (the usual case): plain arrays instead of a set and a map.
+    const list: number[] = [];
+    for (let i = 0; i < args.length; i++) {
+      const a = args[i]!;
+      const c = this.isConst(a);
+      if (c === absorbing) return this.constant(absorbing);
+      if (c !== undefined) continue; // identity element
+      if (!list.includes(a)) list.push(a);
+    }
+    // x op !x
+    for (let i = 0; i < list.length; i++) {
+      const n = this.nodes[list[i]!]!;
+      if (n.op !== "not") continue;
+      if (list.includes(n.fanins[0]!)) return this.constant(absorbing);
+    }
+    if (list.length === 0) return this.constant(absorbing ? 0 : 1);
+    if (list.length === 1) return list[0]!;
+    // Ascending (insertion sort: a few elements).
+    for (let i = 1; i < list.length; i++) {
+      const x = list[i]!;
+      let j = i - 1;
+      while (j >= 0 && list[j]! > x) {
+        list[j + 1] = list[j]!;
+        j--;
+      }
+      list[j + 1] = x;
+    }
+    return this.hashed(op, list);
+  }
+
+  private andOrWide(op: "and" | "or", args: number[]): number {
     const absorbing = op === "and" ? 0 : 1;
     const set = new Set<number>();
     for (const a of args) {
@@ -180,6 +218,9 @@ export function rebuild(
   const order = evaluationOrder(g, cutIds);
   if (!order) throw new Error("rebuild: a loop is not broken at the state signals");
   const live = liveNodes(g, cutIds);
+  // Without a rewrite the operands go straight to the builder, which copies what it keeps: one
+  // scratch list serves every node.
+  const scratch: number[] = [];
   for (const id of order) {
     if (map[id]! >= 0 || !live[id]) continue;
     const n = g.nodes[id]!;
@@ -187,8 +228,14 @@ export function rebuild(
       map[id] = b.input(n.name ?? `in${id}`);
       continue;
     }
-    const operands = n.fanins.map((f) => map[f]!);
-    const r = rewrite ? rewrite(b, n, operands, id) : b.op(n.op, operands);
+    let r: number;
+    if (rewrite) r = rewrite(b, n, n.fanins.map((f) => map[f]!), id);
+    else {
+      const fanins = n.fanins;
+      scratch.length = fanins.length;
+      for (let i = 0; i < fanins.length; i++) scratch[i] = map[fanins[i]!]!;
+      r = b.op(n.op, scratch);
+    }
     map[id] = r;
     b.nameNode(r, n.name, n.span);
   }
@@ -293,13 +340,21 @@ export function rebuildWith(g: LogicGraph, stateNames: readonly string[], replac
 
 /** Nodes that reach an output or a state signal. */
 export function liveNodes(g: LogicGraph, cutIds: ReadonlySet<number>): Uint8Array {
-  const live = new Uint8Array(g.nodes.length);
-  const stack = [...g.outputs.map((p) => p.node), ...cutIds];
-  while (stack.length) {
-    const id = stack.pop()!;
-    if (live[id]) continue;
+  const nodes = g.nodes;
+  const live = new Uint8Array(nodes.length);
+  // A node goes on the stack once, when first marked (so the stack never exceeds the nodes).
+  const stack = new Int32Array(nodes.length);
+  let sp = 0;
+  const mark = (id: number) => {
+    if (live[id]) return;
     live[id] = 1;
-    for (const each of g.nodes[id]!.fanins) stack.push(each);
+    stack[sp++] = id;
+  };
+  for (const p of g.outputs) mark(p.node);
+  for (const id of cutIds) mark(id);
+  while (sp > 0) {
+    const fanins = nodes[stack[--sp]!]!.fanins;
+    for (let i = 0; i < fanins.length; i++) mark(fanins[i]!);
   }
   for (const p of g.inputs) live[p.node] = 1;
   return live;

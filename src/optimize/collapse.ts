@@ -410,6 +410,7 @@ function collapseRegions(g: LogicGraph, ctx: CollapseOptions): LogicGraph {
   // Each region is priced on its own (a graph of a few nodes), so the budget grows with the
   // design rather than being the whole-graph pricing budget.
   const budget = Math.max(L.maxEvaluations, Math.ceil(REGION_EVALUATIONS_PER_NODE * g.nodes.length));
+  const pricedBySpec = new Map<string, { form: Form; cost: number }[]>();
   for (const r of stops) {
     if (inState[r]) continue;
     const leaves = supportOf(f, r, stops, L.regionMaxVariables);
@@ -432,16 +433,24 @@ function collapseRegions(g: LogicGraph, ctx: CollapseOptions): LogicGraph {
     if (inner < 2) continue;
     if (evaluations >= budget) break;
     const sim = simulateOver(f, leaves, [r]);
-    const spec = specOfWords(sim.values[r]!, leaves.length);
+    const words = sim.values[r]!;
     const old = regionGraph(f, r, leaves);
     let bestCost = cost(old);
     let bestForm: Form | undefined;
     evaluations++;
-    for (const cand of twoLevelCandidates(spec, leaves.length, { limits: L, xor: true })) {
-      const c = cost(formGraph(cand.form, leaves.length));
+    // Regions of one design often compute the same function of their leaves: its candidates
+    // and their prices are worked out once.
+    const key = `${leaves.length}:${words.join(",")}`;
+    let priced = pricedBySpec.get(key);
+    if (!priced) {
+      const spec = specOfWords(words, leaves.length);
+      priced = twoLevelCandidates(spec, leaves.length, { limits: L, xor: true }).map((cand) => ({ form: cand.form, cost: cost(formGraph(cand.form, leaves.length)) }));
+      pricedBySpec.set(key, priced);
+    }
+    for (const cand of priced) {
       evaluations++;
-      if (c < bestCost) {
-        bestCost = c;
+      if (cand.cost < bestCost) {
+        bestCost = cand.cost;
         bestForm = cand.form;
       }
     }

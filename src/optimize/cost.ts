@@ -4,6 +4,7 @@ import type { LogicGraph } from "../logic/graph.js";
 import { mapToCells, type CellChoice } from "../map/map.js";
 import { tallyParts, type CostModel, type PartTally } from "../map/cost.js";
 import type { CellNetlist } from "../map/types.js";
+import { tallyMapping } from "../map/tally.js";
 
 export interface MappingTarget {
   stateNames: readonly string[];
@@ -21,7 +22,11 @@ export function mapForCost(g: LogicGraph, t: MappingTarget): CellNetlist {
   return m.value;
 }
 
+/** What the mapping costs: counted without building the netlist where the count is exact
+ *  (src/map/tally.ts), else from the netlist. */
 export function mappedTally(g: LogicGraph, t: MappingTarget): PartTally {
+  const counted = tallyMapping(g, { stateNames: t.stateNames, maxFanin: t.maxFanin, cells: t.cells, costModel: t.model, maxFanout: t.maxFanout, wiredAnd: t.wiredAnd });
+  if (counted) return counted;
   return tallyParts(mapForCost(g, t), t.model);
 }
 
