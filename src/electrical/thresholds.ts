@@ -186,11 +186,31 @@ export function modelInputLowThreshold(
 ): number | undefined {
   if (!dev.models) return undefined;
   const c = circuit as ThresholdCircuit;
+  // The threshold does not depend on the load, so the sizing asks for the same one once per
+  // load situation: remembered per pair of model cards, keyed by everything else it reads.
+  const inp = c.input;
+  const key =
+    `${c.chain.join(",")}|${inp.kind === "and" ? `a${inp.pullUpOhms}|${inp.collectorSharedOhms ?? ""}` : `o${inp.sourceOhms}`}|` +
+    `${c.rbOhms}|${c.rcOhms}|${vccVolts}|${dev.tempC}|${dev.betaMin}`;
+  let byCards = thresholdMemo.get(dev.models.diode)?.get(dev.models.npn);
+  if (!byCards) {
+    let inner = thresholdMemo.get(dev.models.diode);
+    if (!inner) thresholdMemo.set(dev.models.diode, (inner = new WeakMap()));
+    inner.set(dev.models.npn, (byCards = new Map()));
+  }
+  const hit = byCards.get(key);
+  if (hit !== undefined) return Number.isNaN(hit) ? undefined : hit;
   c.vccVolts = vccVolts;
   c.tempC = dev.tempC;
   c.diode = dev.models.diode;
   c.npn = dev.models.npn;
   c.beta = dev.betaMin;
   const v = inputLowThreshold(c);
-  return Number.isFinite(v) ? v - THRESHOLD_ALLOWANCE_VOLTS : undefined;
+  const out = Number.isFinite(v) ? v - THRESHOLD_ALLOWANCE_VOLTS : undefined;
+  if (byCards.size >= THRESHOLD_MEMO_LIMIT) byCards.clear();
+  byCards.set(key, out ?? Number.NaN);
+  return out;
 }
+
+const THRESHOLD_MEMO_LIMIT = 200_000;
+const thresholdMemo = new WeakMap<ModelParams, WeakMap<ModelParams, Map<string, number>>>();

@@ -169,7 +169,9 @@ async function child(job: Job): Promise<void> {
     const sizing = { supplyVolts: 5, mode: "uniform" as const };
     let mapped = time("map", () => mapToCells(opt.graph, { stateNames: front.keptNames, maxFanin: 8, cells: "mixed", ...mapExtras }));
     if (!mapped.value) return fail("map", mapped.diagnostics.map((d) => d.message).join("; "));
-    let sized = time("size", () => sizeDesign(mapped.value!, sizing));
+    // The mixed attempt reports a failure without the search for what blocks it, as
+    // synthesize() does when it has the NAND fallback.
+    let sized = time("size", () => sizeDesign(mapped.value!, { ...sizing, quickFailure: true }));
     if (!sized.value && sized.diagnostics.some((d) => d.code === "GW5001")) {
       mapped = time("map", () => mapToCells(opt.graph, { stateNames: front.keptNames, maxFanin: 8, cells: "nand", ...mapExtras }), "NAND fallback");
       sized = time("size", () => sizeDesign(mapped.value!, sizing), "NAND fallback");
