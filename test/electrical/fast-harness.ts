@@ -1,5 +1,6 @@
-// Shared by the switching-time checks (basic and fast cells): one cell under test built from its
-// own topology data, driven by a fast input edge (a voltage step for diode-AND inputs, a switched DTL pull-up for diode-OR
+// Shared by the ngspice checks of the electrical models: model cards and cell subcircuits as
+// netlist text, and for the switching-time checks (basic and fast cells) one cell under test
+// built from its own topology data, driven by a fast input edge (a voltage step for diode-AND inputs, a switched DTL pull-up for diode-OR
 // inputs), with real NAND loads and 3 pF wiring each, run in the embedded ngspice
 // (eecircuit-engine), and the analytic estimate at the same conditions.
 import { Simulation } from "eecircuit-engine";

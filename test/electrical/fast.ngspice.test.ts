@@ -4,19 +4,14 @@
 // high-fan-out cells at 3.9k/8.2k/8.2k/3.3k with 12 loads); the grid below is different values,
 // supplies, loads and capacitors and was not used to tune it. Real NAND loads plus 3 pF wiring
 // each on the output; delays at 50 % of each swing.
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 import { CELLS } from "../../src/cells/registry.js";
 import type { CellDefinition } from "../../src/cells/types.js";
-import { analytic, Ngspice, simulate, type Case } from "./fast-harness.js";
+import { analytic, simulate, type Case } from "./fast-harness.js";
+import { ngspiceSuite } from "./ngspice-suite.js";
 
 const byId = (id: string): CellDefinition => CELLS.find((c) => c.id === id)!;
-const ng = new Ngspice();
-const ratios: string[] = [];
-beforeAll(() => ng.start(), 120_000);
-afterAll(() => {
-  ng.stop();
-  if (process.env.GW_RATIOS) process.stdout.write(`${ratios.join("\n")}\n`);
-});
+const { ng, ratios } = ngspiceSuite();
 
 const CASES: Case[] = [
   { def: byId("nand-cap"), values: { rpOhms: 8200, rbOhms: 10000, rcOhms: 3300, csuFarads: 47e-12 }, vcc: 5, loads: 6 },

@@ -10,24 +10,13 @@ import { nandCell } from "../../src/cells/nand/index.js";
 import { nandHifanCell } from "../../src/cells/nand-hifan/index.js";
 import { norCell } from "../../src/cells/nor/index.js";
 import type { CellDefinition, CellValues } from "../../src/cells/types.js";
-import { DEFAULT_DEVICES, devicesAt, type ModelCard } from "../../src/electrical/devices.js";
+import { DEFAULT_DEVICES, devicesAt } from "../../src/electrical/devices.js";
 import { modelInputLowThreshold, THRESHOLD_ALLOWANCE_VOLTS } from "../../src/electrical/thresholds.js";
 import { embeddedSimulator, type Simulator } from "../../src/simulate/engine.js";
 import { unityGainPoints } from "../../src/simulate/waveform.js";
+import { card, subckt } from "./fast-harness.js";
 
 const d = DEFAULT_DEVICES;
-const card = (m: ModelCard): string => `.model ${m.name} ${m.type}(${Object.entries(m.params).map(([k, v]) => `${k}=${v}`).join(" ")})`;
-
-function subckt(def: CellDefinition, fanin: number, values: CellValues): string {
-  const t = def.topology(fanin);
-  const lines = [`.subckt dut ${t.pins.join(" ")}`];
-  for (const c of t.components) {
-    const tail = c.kind === "R" ? String(values[c.valueKey!]) : c.model === "diode" ? d.diode.name : d.npn.name;
-    lines.push(`${c.name} ${c.nodes.join(" ")} ${tail}`);
-  }
-  lines.push(".ends");
-  return lines.join("\n");
-}
 
 let sim: Simulator;
 beforeAll(async () => {
@@ -47,7 +36,7 @@ async function simulatedVil(def: CellDefinition, values: CellValues, vcc: number
     // The transistor card as verify and the characterization run it: BF the least gain, TNOM
     // 25 °C (src/verify/netlist-text.ts); the diode at ngspice's TNOM of 27 °C.
     card(d.npn).replace(/BF=[0-9.e+-]+/, `BF=${devicesAt(d, tempC).betaMin} TNOM=25`),
-    subckt(def, 2, values),
+    subckt("dut", def, 2, values),
     `VCC vcc 0 ${vcc}`,
     and ? "VSW in1 0 0" : `VSW sw 0 0\nRS sw in1 ${sourceOhms}`,
     and ? "XD in1 vcc out vcc dut" : "XD in1 0 out vcc dut",

@@ -3,19 +3,14 @@
 // it. Each cell under test is built from its own topology data; the input switches fast (a
 // voltage step for diode-AND inputs, a switched DTL pull-up for diode-OR inputs) and the output
 // carries real NAND loads plus 3 pF wiring each. Delays are measured at 50 % of each swing.
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 import { nandCell } from "../../src/cells/nand/index.js";
 import { norCell } from "../../src/cells/nor/index.js";
 import { nandHifanCell } from "../../src/cells/nand-hifan/index.js";
-import { analytic, Ngspice, simulate, type Case } from "./fast-harness.js";
+import { analytic, simulate, type Case } from "./fast-harness.js";
+import { ngspiceSuite } from "./ngspice-suite.js";
 
-const ng = new Ngspice();
-const ratios: string[] = [];
-beforeAll(() => ng.start(), 120_000);
-afterAll(() => {
-  ng.stop();
-  if (process.env.GW_RATIOS) process.stdout.write(`${ratios.join("\n")}\n`);
-});
+const { ng, ratios } = ngspiceSuite();
 
 const CASES: Case[] = [
   { def: nandCell, values: { rpOhms: 9100, rbOhms: 12000, rcOhms: 3900 }, vcc: 5, loads: 5 },
