@@ -327,12 +327,18 @@ export function rebuildWith(g: LogicGraph, stateNames: readonly string[], replac
     const operands = n.fanins.map((f) => map[f]!);
     b.bind(map[id]!, n.op === "buf" ? operands[0]! : b.op(n.op, operands));
   }
+  return assembleGraph(g, b.nodes, map);
+}
+
+/** The graph of `nodes` that stands for `g`: its ports moved through `map` (old node → new),
+ *  its name, source file and don't-cares carried over. */
+export function assembleGraph(g: LogicGraph, nodes: LogicNode[], map: ArrayLike<number>): LogicGraph {
   const port = (p: Port): Port => {
     const q: Port = { name: p.name, node: map[p.node]! };
     if (p.span) q.span = p.span;
     return q;
   };
-  const out: LogicGraph = { name: g.name, nodes: b.nodes, inputs: g.inputs.map(port), outputs: g.outputs.map(port) };
+  const out: LogicGraph = { name: g.name, nodes, inputs: g.inputs.map(port), outputs: g.outputs.map(port) };
   if (g.file !== undefined) out.file = g.file;
   if (g.dontCares) out.dontCares = g.dontCares;
   return out;

@@ -17,9 +17,9 @@
 // through the builder in the same pass and their supports shrink, so they can be proven in turn.
 // The proofs have a work budget in proportion to the graph (SWEEP_WORK_PER_NODE words simulated
 // per node); candidates left when it runs out are kept as they are, with a note.
-import type { LogicGraph, LogicNode, Port } from "../logic/graph.js";
+import type { LogicGraph, LogicNode } from "../logic/graph.js";
 import { enumerationWords, seededRandom } from "../logic/evaluate.js";
-import { GraphBuilder, liveNodes, rebuild, rebuildWith, type Replacement } from "./builder.js";
+import { assembleGraph, GraphBuilder, liveNodes, rebuild, rebuildWith, type Replacement } from "./builder.js";
 import { limitsOf, note, type PassContext } from "./context.js";
 import { constant, lit } from "./form.js";
 import { graphFacts, simulateOver, stateConeNodes, type GraphFacts } from "./tables.js";
@@ -332,14 +332,7 @@ function sweepBuilding(g: LogicGraph, ctx: PassContext, f: GraphFacts): LogicGra
     const operands = n.fanins.map((x) => map[x]!);
     b.bind(map[id]!, n.op === "buf" ? operands[0]! : b.op(n.op, operands));
   }
-  const port = (p: Port): Port => {
-    const q: Port = { name: p.name, node: map[p.node]! };
-    if (p.span) q.span = p.span;
-    return q;
-  };
-  const built: LogicGraph = { name: g.name, nodes: b.nodes as LogicNode[], inputs: g.inputs.map(port), outputs: g.outputs.map(port) };
-  if (g.file !== undefined) built.file = g.file;
-  if (g.dontCares) built.dontCares = g.dontCares;
+  const built = assembleGraph(g, b.nodes as LogicNode[], map);
   // Nodes made and then merged away are left behind: one more rebuild drops them.
   return rebuild(built, ctx.stateNames);
 }
