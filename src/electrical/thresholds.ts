@@ -187,19 +187,34 @@ export function modelInputLowThreshold(
   if (!dev.models) return undefined;
   const c = circuit as ThresholdCircuit;
   // The threshold does not depend on the load, so the sizing asks for the same one once per
-  // load situation: remembered per pair of model cards, keyed by everything else it reads.
+  // load situation: remembered per pair of model cards, keyed by everything else it reads (a
+  // hash of the numbers' bits, each entry checked field by field: no strings in the inner loop).
   const inp = c.input;
-  const key =
-    `${c.chain.join(",")}|${inp.kind === "and" ? `a${inp.pullUpOhms}|${inp.collectorSharedOhms ?? ""}` : `o${inp.sourceOhms}`}|` +
-    `${c.rbOhms}|${c.rcOhms}|${vccVolts}|${dev.tempC}|${dev.betaMin}`;
+  const isAnd = inp.kind === "and";
+  const a = isAnd ? inp.pullUpOhms : inp.sourceOhms;
+  const b = isAnd ? (inp.collectorSharedOhms ?? -1) : -2;
+  const chainCode = chainCodeOf(c.chain);
+  let h = mixBits(chainCode, a);
+  h = mixBits(h, b);
+  h = mixBits(h, c.rbOhms);
+  h = mixBits(h, c.rcOhms);
+  h = mixBits(h, vccVolts);
+  h = mixBits(h, dev.tempC);
+  h = mixBits(h, dev.betaMin);
   let byCards = thresholdMemo.get(dev.models.diode)?.get(dev.models.npn);
   if (!byCards) {
     let inner = thresholdMemo.get(dev.models.diode);
     if (!inner) thresholdMemo.set(dev.models.diode, (inner = new WeakMap()));
-    inner.set(dev.models.npn, (byCards = new Map()));
+    inner.set(dev.models.npn, (byCards = { size: 0, buckets: new Map() }));
   }
-  const hit = byCards.get(key);
-  if (hit !== undefined) return Number.isNaN(hit) ? undefined : hit;
+  const bucket = byCards.buckets.get(h);
+  if (bucket) {
+    for (const e of bucket) {
+      if (e.chain === chainCode && e.a === a && e.b === b && e.rb === c.rbOhms && e.rc === c.rcOhms && e.vcc === vccVolts && e.t === dev.tempC && e.beta === dev.betaMin) {
+        return Number.isNaN(e.v) ? undefined : e.v;
+      }
+    }
+  }
   c.vccVolts = vccVolts;
   c.tempC = dev.tempC;
   c.diode = dev.models.diode;
@@ -207,10 +222,48 @@ export function modelInputLowThreshold(
   c.beta = dev.betaMin;
   const v = inputLowThreshold(c);
   const out = Number.isFinite(v) ? v - THRESHOLD_ALLOWANCE_VOLTS : undefined;
-  if (byCards.size >= THRESHOLD_MEMO_LIMIT) byCards.clear();
-  byCards.set(key, out ?? Number.NaN);
+  if (byCards.size >= THRESHOLD_MEMO_LIMIT) {
+    byCards.buckets.clear();
+    byCards.size = 0;
+  }
+  const entry: MemoEntry = { chain: chainCode, a, b, rb: c.rbOhms, rc: c.rcOhms, vcc: vccVolts, t: dev.tempC, beta: dev.betaMin, v: out ?? Number.NaN };
+  const list = byCards.buckets.get(h);
+  if (list) list.push(entry);
+  else byCards.buckets.set(h, [entry]);
+  byCards.size++;
   return out;
 }
 
+interface MemoEntry {
+  chain: number;
+  a: number;
+  b: number;
+  rb: number;
+  rc: number;
+  vcc: number;
+  t: number;
+  beta: number;
+  /** The threshold, or NaN for none. */
+  v: number;
+}
+
 const THRESHOLD_MEMO_LIMIT = 200_000;
-const thresholdMemo = new WeakMap<ModelParams, WeakMap<ModelParams, Map<string, number>>>();
+const thresholdMemo = new WeakMap<ModelParams, WeakMap<ModelParams, { size: number; buckets: Map<number, MemoEntry[]> }>>();
+
+/** The junction chain as a number: one bit per junction (follower 1), above a leading 1. */
+function chainCodeOf(chain: readonly ("diode" | "follower")[]): number {
+  let x = 1;
+  for (const j of chain) x = x * 2 + (j === "follower" ? 1 : 0);
+  return x;
+}
+
+const bitsF64 = new Float64Array(1);
+const bitsU32 = new Uint32Array(bitsF64.buffer);
+
+/** One step of a 32-bit hash over the bits of a double. */
+function mixBits(h: number, x: number): number {
+  bitsF64[0] = x;
+  h = Math.imul(h ^ bitsU32[0]!, 0x9e3779b1);
+  h = Math.imul(h ^ bitsU32[1]!, 0x85ebca77);
+  return h ^ (h >>> 15);
+}

@@ -92,9 +92,16 @@ export function clampBoundAmps(env: CellEnv): number {
  *  bound current, with the base drive of the required saturation margin (1.2, the default) at
  *  β_min. */
 export function clampedLowVolts(env: CellEnv): number {
+  const hit = boundLowMemo.get(env);
+  if (hit !== undefined) return hit;
   const ic = clampBoundAmps(env);
-  return clampedLowVoltsAt(env, ic, (1.2 * ic) / env.dev.betaMin, 1.2);
+  const v = clampedLowVoltsAt(env, ic, (1.2 * ic) / env.dev.betaMin, 1.2);
+  boundLowMemo.set(env, v);
+  return v;
 }
+
+// The sizing asks for the bound level of the same few corner environments many times over.
+const boundLowMemo = new WeakMap<CellEnv, number>();
 
 /** Capacitor value of a set of values, nominal, and its tolerance. */
 export function capacitorOf(values: CellValues): { farads: number; tolerance: number } {
@@ -125,8 +132,10 @@ export function deriveFastCell(base: CellDefinition, spec: FastSpec): CellDefini
   };
 
   const analyze = (values: CellValues, env: CellEnv, load: OutputLoad, drive: InputDrive): CellOperatingPoint => {
+    // Every cell's analyze returns a fresh operating point: completed in place (the sizing calls
+    // this in its innermost loop).
     const op = base.analyze(values, env, load, drive);
-    const extra: Record<string, number> = { ...op.extra };
+    const extra: Record<string, number> = op.extra;
     if (spec.clamp) {
       // Driven into the clamp (enough base drive): the output sits at V_BE − V_F. Without
       // enough drive the transistor is active and the base cell's level (higher) stands.
@@ -145,7 +154,7 @@ export function deriveFastCell(base: CellDefinition, spec: FastSpec): CellDefini
       extra.speedUpChargeCoulombs = c.farads * (1 + c.tolerance) * swing;
       extra.speedUpEnergyJoules = extra.speedUpChargeCoulombs * env.vccVolts;
     }
-    return { ...op, extra };
+    return op;
   };
 
   const stresses = (values: CellValues, env: CellEnv, load: OutputLoad, drive: InputDrive, fanin: number): ComponentStress[] => {
