@@ -897,10 +897,28 @@ interface Attempt {
   fastNote?: string;
   /** The per-gate delay the fast plan was sized to (the budget less FAST_DELAY_GUARD). */
   gateDelayMaxSeconds?: number;
+  /** Set when the delay screen (see screenPlan) dropped every plan: the delay alone blocks, and
+   *  this is the fastest any plan reached with every other constraint left out. */
+  delayOnly?: DelayReach;
+}
+
+/** The fastest a plan's cells were found to switch with every constraint but the delays left out:
+ *  the worst-corner delay that misses the budget most, which one it is, and the cell it is in. */
+interface DelayReach {
+  id: "delay-fall" | "delay-rise";
+  seconds: number;
+  def: CellDefinition;
+  margin: number;
 }
 
 /** Share of the delay budget kept back when sizing the fast variants (see attemptFast). */
 const FAST_DELAY_GUARD = 0.2;
+
+/** A plan whose cells, with every constraint but the delays left out, still miss the budget by
+ *  more than this share of it on the screen's coarse series is not sized (see screenPlan). */
+const SCREEN_SLACK = 1;
+/** The screen's series: every this-many-th standard value (resistors and capacitors). */
+const SCREEN_STEP = 4;
 
 /** Uniform sizing with the basic cells; when that fails, the fewest heaviest-loaded NAND cells
  *  moved to the high-fan-out variant that make it fit. */
@@ -975,6 +993,7 @@ function attemptAll(netlist: CellNetlist, u: UniformEnv): Attempt {
  *  reason: when the same cells fit once the tied collectors' leakage and capacitance are left
  *  out, the diagnostic says so and names building without --wired-and as what relaxes it. */
 function explainFailure(netlist: CellNetlist, u: UniformEnv, first: Attempt): Diagnostic {
+  if (first.delayOnly) return delayOnlyDiagnostic(netlist, u, first);
   if (u.quick && !first.outcome.ok) return failureDiagnostic(first.outcome.failure, u.o, first.triedVariant);
   // After fast variants were tried, explain the failure of the most capable plan.
   if (first.plan && !u.plan) u = { ...u, plan: first.plan };
@@ -1037,6 +1056,45 @@ function sizedPowerWatts(sized: Sized): number {
   return p;
 }
 
+/** The delay screen: how close a plan's cells come to the delay budget when nothing else is asked
+ *  of them (every other constraint left out), on every SCREEN_STEP-th resistor and capacitor
+ *  value, with the NAND cells in their basic and in their high-fan-out form. Leaving constraints
+ *  out can only let a design switch faster, so a plan that misses by more than SCREEN_SLACK here
+ *  cannot meet the budget on the full series unless its delays change by more than that factor
+ *  between neighbouring screen values; the full sizing of such a plan is skipped. Feasible
+ *  relaxed problems end the search early, so a plan that can meet the budget costs little. */
+function screenPlan(netlist: CellNetlist, u: UniformEnv, plan: VariantPlan, caps: readonly number[]): DelayReach | "fits" {
+  const delays = new Set(["delay-fall", "delay-rise"]);
+  const others = CONSTRAINTS.map((c, i) => (delays.has(c.id) ? -1 : i)).filter((i) => i >= 0);
+  const grid = u.grid.filter((_, k) => k % SCREEN_STEP === 0 || k === u.grid.length - 1);
+  const relaxed: UniformEnv = { ...u, grid, disabled: new Set([...(u.disabled ?? []), ...others]) };
+  const capList = plan.capFarads === undefined || caps.length === 0 ? [undefined] : caps.filter((_, k) => k % SCREEN_STEP === 0 || k === caps.length - 1);
+  const hifan = variantsFor("nand").find((d) => d.variant === "high-fanout");
+  let best: DelayReach | undefined;
+  for (const cap of capList) {
+    const p: VariantPlan = cap === undefined ? plan : { ...plan, capFarads: cap };
+    const env: UniformEnv = { ...relaxed, plan: p };
+    const basic = netlist.cells.map((c) => planned(env, basicCellFor(c.fn)));
+    const forms = [basic];
+    if (hifan && netlist.cells.some((c) => c.fn === "nand")) forms.push(netlist.cells.map((c) => (c.fn === "nand" ? planned(env, hifan) : planned(env, basicCellFor(c.fn)))));
+    for (const defs of forms) {
+      const out = sizeUniform(netlist, defs, env);
+      if (out.ok) return "fits";
+      const cl = out.failure.closest;
+      if (!cl) continue;
+      const fall = cl.margins[CI_DELAY_FALL]!;
+      const rise = cl.margins[CI_DELAY_RISE]!;
+      const id = rise <= fall ? "delay-rise" : "delay-fall";
+      const m = Math.min(fall, rise);
+      if (!best || m > best.margin) best = { id, margin: m, seconds: u.gateDelayMaxSeconds! * (1 - m), def: out.failure.def };
+    }
+  }
+  return best ?? { id: "delay-rise", margin: -Infinity, seconds: Infinity, def: planned({ ...u, plan }, basicCellFor(netlist.cells[0]!.fn)) };
+}
+
+const CI_DELAY_FALL = CONSTRAINTS.findIndex((c) => c.id === "delay-fall");
+const CI_DELAY_RISE = CONSTRAINTS.findIndex((c) => c.id === "delay-rise");
+
 /** Under a speed budget the basic cells miss: the cheapest plan of fast variants that meets it at
  *  every corner (parts first, then worst-case power), with the smallest allowed speed-up
  *  capacitor that does (least load on the drivers, least switching energy). Feasibility is tried
@@ -1072,8 +1130,18 @@ function attemptFast(netlist: CellNetlist, u0: UniformEnv): Attempt {
   let closest: { plan: VariantPlan; margin: number } | undefined;
   const found: { plan: VariantPlan; attempt: Attempt; power: number }[] = [];
   const missed: VariantPlan[] = [];
+  // Plans the delay screen drops, and the fastest any of them reached there.
+  let screenedOut = 0;
+  let reach: DelayReach | undefined;
   for (const plan of plans) {
     if (found.length > 0 && plan.parts > found[0]!.plan.parts) break;
+    const screened = screenPlan(netlist, u, plan, caps);
+    if (screened !== "fits" && screened.margin < -SCREEN_SLACK) {
+      if (!reach || screened.margin > reach.margin) reach = screened;
+      screenedOut++;
+      missed.push(plan);
+      continue;
+    }
     let p = plan;
     if (plan.capFarads !== undefined && caps.length > 0) {
       // A larger capacitor removes more stored charge but loads the drivers more (diode-AND
@@ -1099,6 +1167,10 @@ function attemptFast(netlist: CellNetlist, u0: UniformEnv): Attempt {
       continue;
     }
     found.push({ plan: p, attempt: a, power: sizedPowerWatts(a.outcome.sized) });
+  }
+  if (found.length === 0 && screenedOut === plans.length) {
+    // The delays alone block: no plan comes near the budget even with nothing else asked of it.
+    return { ...first, triedFast: true, gateDelayMaxSeconds: u.gateDelayMaxSeconds!, delayOnly: reach! };
   }
   if (found.length === 0) {
     // Explain with the plan (and capacitor) that came closest (at the budget as given).
@@ -1137,6 +1209,28 @@ function partsOfBasic(netlist: CellNetlist): number {
 
 function fmtFarads(f: number): string {
   return `${formatFarads(f)}F`;
+}
+
+/** GW5001 when the delay screen dropped every plan of fast variants: the delay blocks on its own,
+ *  so no search over the other constraints is needed to say so. */
+function delayOnlyDiagnostic(netlist: CellNetlist, u: UniformEnv, first: Attempt): Diagnostic {
+  const o = u.o;
+  const r = first.delayOnly!;
+  const loading = buildSituations(netlist, first.defs, { group: true, ...(o.fanoutOverride !== undefined ? { fanoutOverride: o.fanoutOverride } : {}) });
+  const maxFan = loading.situations.reduce((m, s) => Math.max(m, s.andLoads + s.orLoads), 0);
+  const limit = first.gateDelayMaxSeconds ?? u.gateDelayMaxSeconds!;
+  const msg =
+    `${r.def.title}, largest fan-out ${maxFan}: no ${o.series} values meet every constraint at every corner; ${labelOf(r.id)} fails first: ` +
+    `the best design reaches about ${fmtQuantity(r.seconds, "s")} against at most ${fmtQuantity(limit, "s")} required even with every other constraint left out ` +
+    `(screened on every ${ordinal(SCREEN_STEP)} standard value): no variant comes within a factor of ${fmt(1 + SCREEN_SLACK)} of the budget`;
+  const hint =
+    `what would relax it: ${RELAX[r.id] ?? "a slower budget"}; the fast variants were tried (speed-up capacitor up to ${fmtFarads(o.capacitorMaxFarads)} and Schottky clamp, ` +
+    `their estimates held ${fmt(FAST_DELAY_GUARD * 100)} % under the budget for the estimate's accuracy), and the figure is for the one that came closest`;
+  return diag("GW5001", msg, undefined, { hint });
+}
+
+function ordinal(n: number): string {
+  return n === 2 ? "second" : n === 3 ? "third" : `${n}th`;
 }
 
 /** Which constraint blocks an infeasible request: the ones whose removal alone lets the search
