@@ -22,13 +22,13 @@ afterAll(async () => {
 });
 
 /** Largest forced fan-out the sizing accepts (its own claim), by bisection in [lo, hi]. Each
- *  sizing is synchronous (seconds when it fails: the failure analysis searches again); the
- *  bisection lets the event loop turn between them, since a test worker blocked for a minute
- *  loses its link to the runner. */
+ *  sizing is synchronous; a failing one skips the search for what blocks it (quickFailure: only
+ *  yes or no is wanted here), and the bisection lets the event loop turn between them, since a
+ *  test worker blocked for a minute loses its link to the runner. */
 async function largestFanout(supplyVolts: number, variants: "basic" | "auto", lo: number, hi: number): Promise<number> {
   const ok = async (f: number) => {
     await new Promise((r) => setImmediate(r));
-    return sizeDesign(fanoutNet(2), { supplyVolts, fanoutOverride: f, variants }).value !== undefined;
+    return sizeDesign(fanoutNet(2), { supplyVolts, fanoutOverride: f, variants, quickFailure: true }).value !== undefined;
   };
   expect(await ok(lo)).toBe(true);
   while (hi - lo > 1) {
