@@ -93,6 +93,9 @@ export interface InputDrive {
    *  which limits the reverse current that clears the input diode's stored charge. Absent: a
    *  stiff source (a voltage step). */
   andSourceOhms?: number;
+  /** For a stiff source: the step's rise time (a test bench's edge), over which the input
+   *  diode's stored charge recombines before the step clears it. Absent: an ideal step. */
+  edgeSeconds?: number;
 }
 
 /** One analysis of a cell at given values, conditions, load and drive. Currents in A, volts in V. */

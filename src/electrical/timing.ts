@@ -1,6 +1,6 @@
 // Switching times by charge control (Moll, Proc. IRE 42, 1954; Millman & Taub, Pulse, Digital
-// and Switching Waveforms). Inputs switch as ideal steps; delays are to the output crossing 50 %
-// of its swing (V_OL..V_OH).
+// and Switching Waveforms). Inputs switch as fast edges (behind a driver's pull-up, or a step of
+// a given rise time); delays are to the output crossing 50 % of its swing (V_OL..V_OH).
 //
 // Output falling (t_PHL): the input node charges through its pull-up to the level where the
 // path conducts; the base current I_B1 then charges the emitter junction, supplies the Miller
@@ -17,9 +17,12 @@
 //   C_SU·ΔV out of the base at once; it comes off the stored charge first (as a smaller
 //   effective I_B1 in the storage-time formula), then off the active charge τ_F·I_C, and what is
 //   left holds the base below cut-in while the collector swings, taking the Miller charge in
-//   place of R_B (the rise becomes R_C-limited). On the output's fall the charge that recharges
-//   C_SU is delivered into the base (the input node need not charge the level-shift diodes
-//   first); a NOR's capacitors also load the driving input and, for the other inputs, the base.
+//   place of R_B (the rise becomes R_C-limited); beyond that, the spare charge has pulled the
+//   base and, through the saturated collector junction, the output below their low levels, and
+//   the output's pull-up returns it before the output rises. On the output's fall the charge
+//   that recharges C_SU is delivered into the base (the input node need not charge the
+//   level-shift diodes first); a NOR's capacitors form a divider with the base's capacitance, so
+//   its transistor turns on through the rising input's capacitor (capacitorFedFall).
 // - Schottky clamp: no stored charge (t_s = 0); its junction capacitance adds to the collector
 //   junction's Miller charge on both edges and to the capacitance R_C charges.
 // - a diode-AND load with a speed-up capacitor hands its C_SU·ΔV to its driver when the driver
@@ -61,15 +64,23 @@ export function storageTimeConstantSeconds(npn: Record<string, number>): number 
 }
 
 /** Mean depletion capacitance of a junction as its voltage moves between v1 and v2 (forward
- *  positive), from the SPICE depletion charge; forward bias is capped at FC·VJ (FC = 0.5). */
+ *  positive), from the SPICE depletion charge: the graded-junction charge below FC·VJ, and above
+ *  it SPICE's linear extension of the capacitance, C = CJ0/(1 − FC)^(1+M)·(1 − FC·(1 + M) +
+ *  M·V/VJ), with FC 0.5 (SPICE 3f5's junction charge, as ngspice computes it; ngspice manual,
+ *  diode model). */
 export function meanJunctionCapacitanceFarads(cj0: number, vj: number, m: number, v1: number, v2: number): number {
   if (cj0 <= 0) return 0;
-  const cap = 0.5 * vj;
-  const a = Math.min(v1, cap);
-  const b = Math.min(v2, cap);
-  if (Math.abs(a - b) < 1e-9) return cj0 / (1 - Math.min(a, cap) / vj) ** m;
-  const q = (v: number): number => ((cj0 * vj) / (1 - m)) * (1 - (1 - v / vj) ** (1 - m));
-  return Math.abs((q(a) - q(b)) / (a - b));
+  const fc = 0.5;
+  const knee = fc * vj;
+  const f2 = (1 - fc) ** (1 + m);
+  const f3 = 1 - fc * (1 + m);
+  if (Math.abs(v1 - v2) < 1e-9) return v1 < knee ? cj0 / (1 - v1 / vj) ** m : (cj0 / f2) * (f3 + (m * v1) / vj);
+  const q = (v: number): number => {
+    if (v < knee) return ((cj0 * vj) / (1 - m)) * (1 - (1 - v / vj) ** (1 - m));
+    const qKnee = ((cj0 * vj) / (1 - m)) * (1 - (1 - fc) ** (1 - m));
+    return qKnee + (cj0 / f2) * (f3 * (v - knee) + (m / (2 * vj)) * (v * v - knee * knee));
+  };
+  return Math.abs((q(v1) - q(v2)) / (v1 - v2));
 }
 
 const BOLTZMANN_OVER_Q = 1.380649e-23 / 1.602176634e-19;
@@ -228,23 +239,30 @@ export function cellTiming(t: TimingInputs): CellTiming {
 
   // --- Output falling -------------------------------------------------------------------
   // Charge the base side needs before the output moves: the input node up to its on level
-  // (diode-AND cells), the emitter junction to V_BE, and the base charge τ_F·I_C behind the
-  // collector current that holds the static load. The output's fall itself (load discharge
-  // against the Miller current) is loadDischargeSeconds below.
+  // (diode-AND cells), the emitter junction to V_BE, and the base charge τ_F·I_RC behind the
+  // collector current R_C sends in at the 50 % point. The static load is not part of it: the
+  // diode-AND loads' input diodes conduct only once the output is below their input node, well
+  // under the 50 % point. Beyond that current, the collector current discharges the load: the
+  // output's fall against the Miller current is loadDischargeSeconds below (R_C's current, held
+  // by that base charge, asks no Miller current of its own).
   let qNode = 0;
   let qKick = 0;
   let tNode = 0;
   const cMiller = jc.mean(vBE - vOH, vBE - v50) + (js ? js.mean(vBE - vOH, vBE - v50) : 0);
   const qMiller = cMiller * (vOH - v50);
   let followerLag: { v0: number; rX: number; tau: number } | undefined;
+  let capFed: { cSu: number; cHold: number; cInOwn: number; vIn50: number; vCond: number; vLow: number; rs: number } | undefined;
+  // R_C's current at the 50 % point.
+  const iRc50 = Math.max(0, vcc - v50) / rc;
   let qBase = je.charge(0, d.vBECutInVolts) +
     je.mean(0, d.vBECutInVolts) * (vBE - d.vBECutInVolts) +
-    tf * iCs;
+    tf * iRc50;
   if (andInput) {
     // Node capacitance: the other input diodes, and the level-shift diodes (or the follower).
     const cOthers = (t.fanin - 1) * jd.mean(-(vOH - vPLow), -(vOH - vPOn));
-    // The stepped input diode hands its stored and depletion charge to the node as it recovers.
-    qKick = ttd * op.inputLowAmps + jd.charge(d.vDiodeOnVolts, vPOn - vOH);
+    // The stepped input diode hands its stored and depletion charge to the node as it recovers,
+    // less what of the stored charge recombines meanwhile (inputStoredShare).
+    qKick = ttd * op.inputLowAmps * inputStoredShare(ttd, op.inputLowAmps, vcc - vPOn, t.drive) + jd.charge(d.vDiodeOnVolts, vPOn - vOH);
     if (def.timingHints?.follower) {
       // The follower's base (the input node) is raised by the pull-up alone, charging the other
       // input diodes and the follower's junctions; once it conducts, its emitter current drives
@@ -309,7 +327,13 @@ export function cellTiming(t: TimingInputs): CellTiming {
       qKick = cSu * Math.max(0, vCond - vBE - t.drive.vLowMaxVolts);
     }
     const rs = t.drive.orSourceOhms;
-    if (vCond > vIn50 && Number.isFinite(rs) && vcc > vCond) tNode = rs * cIn * Math.log((vcc - vIn50) / (vcc - vCond));
+    if (cSu > 0 && Number.isFinite(rs) && rs > 0 && vcc > vCond) {
+      // The capacitor ties the rising input to the base, which the other inputs' capacitors and
+      // the emitter junction hold to ground: a divider, so the base rises with the input long
+      // before the diode path conducts, and the transistor turns on through the capacitor.
+      const cHold = (t.fanin - 1) * cSu + je.mean(0, vBE);
+      capFed = { cSu, cHold, cInOwn: cIn - cSu, vIn50, vCond, vLow: t.drive.vLowMaxVolts, rs };
+    } else if (vCond > vIn50 && Number.isFinite(rs) && vcc > vCond) tNode = rs * cIn * Math.log((vcc - vIn50) / (vcc - vCond));
   }
   // The kick (the stepped input diode's stored and depletion charge) arrives as the diode
   // recovers: its storage time is τ_T·ln(1 + I_F/I_R) (junction-diode reverse recovery, Millman
@@ -334,7 +358,8 @@ export function cellTiming(t: TimingInputs): CellTiming {
   const cAndDiodes = load.andDiodeFarads ?? 0;
   const cAndDiodesFall = cAndDiodes > 0 && jd.cj0 > 0 ? (cAndDiodes / jd.cj0) * jd.mean(vPOn - vOH, vPOn - v50) : cAndDiodes;
   const cFall = load.capacitanceFarads - cAndDiodes + cAndDiodesFall + cTiedFall;
-  let tLoad = loadDischargeSeconds(cFall * (vOH - v50) + qLoadSu, cFall, cMiller, qMiller, tf, iB1, sinkExcess, qHead);
+  const qFall = cFall * (vOH - v50) + qLoadSu;
+  let tLoad = loadDischargeSeconds(qFall, cFall, cMiller, qMiller, tf, iB1, sinkExcess, qHead);
   // A follower's drive, short of its static value by V_CB(t)/R_X: the fall is worked out again
   // with the mean drive over its own duration (three rounds settle it).
   if (followerLag && followerLag.v0 > 0 && followerLag.rX > 0 && followerLag.tau > 0) {
@@ -342,10 +367,22 @@ export function cellTiming(t: TimingInputs): CellTiming {
       const T = Math.max(tLoad, 1e-12);
       const deficit = (followerLag.v0 / followerLag.rX) * (followerLag.tau / T) * -Math.expm1(-T / followerLag.tau);
       const iB1Fall = Math.max(iB1 - deficit, iB1 * 0.1);
-      tLoad = loadDischargeSeconds(cFall * (vOH - v50) + qLoadSu, cFall, cMiller, qMiller, tf, iB1Fall, Math.max(betaOn * iB1Fall - iCs / 2, 1e-30), qHead);
+      tLoad = loadDischargeSeconds(qFall, cFall, cMiller, qMiller, tf, iB1Fall, Math.max(betaOn * iB1Fall - iCs / 2, 1e-30), qHead);
     }
   }
-  const tPHL = tNode + tBase + tLoad;
+  let tPHL = tNode + tBase + tLoad;
+  if (capFed) {
+    const fed = capacitorFedFall(capFed, { vcc, vBE, tf, iRc50, rbOhms: values.rbOhms!, nF: npn.NF ?? 1, tempC: d.tempC, qLoad: qFall, cFall, cMiller, qMiller, iMaxOf: (ib) => Math.max(betaOn * ib - iCs / 2, 1e-30) });
+    if (fed !== undefined) {
+      tNode = fed.tTurnOn;
+      tLoad = fed.tFall;
+      tPHL = tNode + tLoad;
+    } else {
+      const cIn = capFed.cInOwn + capFed.cSu;
+      tNode = capFed.rs * cIn * Math.log((vcc - capFed.vIn50) / (vcc - capFed.vCond));
+      tPHL = tNode + tBase + tLoad;
+    }
+  }
 
   // --- Output rising --------------------------------------------------------------------
   // Reverse base current through R_B while the transistor is still on.
@@ -382,7 +419,14 @@ export function cellTiming(t: TimingInputs): CellTiming {
     const tRc = millerLimitedRiseSeconds(vOL, v50, vcc, rc, cRise, iB2, 0);
     tRise = tRc + (tRise - tRc) * Math.max(0, 1 - qSpare / (cjcRise * (v50 - vOL)));
   }
-  const tPLH = ts + tDecay + tRise;
+  // A capacitor that brings more than the stored and active charge drives the base below its low
+  // level, and the collector, still tied to it by the saturated collector junction's stored
+  // charge, follows it down; the output's pull-up (R_C, and the diode-AND loads' input currents)
+  // must return that spare charge through the junction before the output can rise (seen in
+  // ngspice as an output below ground for tens of ns). A clamped transistor never saturates, so
+  // its collector junction does not conduct.
+  const tHold = !su?.clamp && qSpare > 0 ? qSpare / Math.max(1e-9, Math.max(0, vcc - vOL) / rc + op.iLoadAmps) : 0;
+  const tPLH = ts + tDecay + tHold + tRise;
   return {
     tPHLSeconds: tPHL,
     tPLHSeconds: tPLH,
@@ -391,6 +435,67 @@ export function cellTiming(t: TimingInputs): CellTiming {
     tRiseSeconds: tRise,
     loadCapacitanceFarads: load.capacitanceFarads + cTiedRise,
   };
+}
+
+/** The falling edge of a diode-OR cell with speed-up capacitors, fed through the capacitor of the
+ *  rising input (charge control, worked from the circuit). The driver's pull-up R_S sends
+ *  I_S = (V_CC − v_in)/R_S into the input. Until the transistor conducts, the input's own
+ *  capacitance C_in and the series pair C_SU / C_hold (the other inputs' capacitors and the
+ *  emitter junction, from base to ground) share it, the base taking C_SU/(C_SU + C_hold) of the
+ *  input's rise; at the input's 50 % point the base is at that share of the rise from the low
+ *  level, b_50. Turn-on: the base from b_50 to V_BE (at the collector current of the fall), the
+ *  input rising by that and by the charge passed over C_SU, and the charge τ_F·I_RC behind R_C's
+ *  current. The fall: Miller-limited (loadDischargeSeconds) with the base current the capacitor
+ *  passes, I_S·C_SU/(C_SU + C_in), less R_B's (once the diode path conducts, it clamps the input
+ *  and the base takes all of I_S: the figure errs slow). */
+function capacitorFedFall(
+  c: { cSu: number; cHold: number; cInOwn: number; vIn50: number; vCond: number; vLow: number; rs: number },
+  k: { vcc: number; vBE: number; tf: number; iRc50: number; rbOhms: number; nF: number; tempC: number; qLoad: number; cFall: number; cMiller: number; qMiller: number; iMaxOf: (iB: number) => number },
+): { tTurnOn: number; tFall: number } | undefined {
+  if (c.vIn50 - c.vLow >= (c.vCond - c.vLow) * (1 - 1e-9)) return undefined;
+  const share = c.cSu / (c.cSu + c.cHold);
+  const b50 = Math.max(0, c.vIn50 - c.vLow) * share;
+  const vt = BOLTZMANN_OVER_Q * (k.tempC + 273.15);
+  let vBE = k.vBE;
+  let iB = 0;
+  let out: { tTurnOn: number; tFall: number } | undefined;
+  // Two rounds: V_BE at the fall's collector current (I_B·C_L/C_μ), which sets the turn-on charge.
+  for (let round = 0; round < 2; round++) {
+    const rise = Math.max(0, vBE - b50);
+    const qHold = c.cHold * rise + k.tf * k.iRc50;
+    const dIn = rise + qHold / c.cSu;
+    const vInOn = c.vIn50 + dIn;
+    const iS = Math.max(0, k.vcc - (c.vIn50 + vInOn) / 2) / c.rs;
+    if (!(iS > 0)) return undefined;
+    const tTurnOn = (qHold + c.cInOwn * dIn) / iS;
+    // The input level the fall leaves: raised by the Miller charge passed over C_SU, at most to
+    // where the diode path conducts (it then clamps the input, and carries the current itself).
+    const vInEnd = Math.min(vInOn + k.qMiller / c.cSu, vBE + c.vCond - k.vBE);
+    const iSFall = Math.max(0, k.vcc - (vInOn + vInEnd) / 2) / c.rs;
+    iB = (iSFall * c.cSu) / (c.cSu + c.cInOwn) - vBE / k.rbOhms;
+    if (!(iB > 0)) return undefined;
+    const tFall = loadDischargeSeconds(k.qLoad, k.cFall, k.cMiller, k.qMiller, k.tf, iB, k.iMaxOf(iB), 0);
+    out = { tTurnOn, tFall };
+    const iC = k.cMiller > 0 ? (iB * k.cFall) / k.cMiller : 1e-3;
+    vBE = k.vBE + k.nF * vt * Math.log(Math.max(iC, 1e-6) / 1e-3);
+  }
+  return out;
+}
+
+/** Share of a stepped input diode's stored charge τ_T·I_F that reaches the input node. Behind a
+ *  driver's pull-up R (DriveInput.andSourceOhms) the reverse current I_R = ΔV/R clears it in
+ *  t_s = τ_T·ln(1 + I_F/I_R) while it recombines at q/τ_T, so I_R·t_s of it arrives: the share
+ *  (I_R/I_F)·ln(1 + I_F/I_R) (charge control of reverse recovery, Millman & Halkias ch. 3). A
+ *  stiff step with a rise time t_e holds the diode forward for about that long, leaving
+ *  e^(−t_e/τ_T) of it; an ideal step, all of it. */
+export function inputStoredShare(ttSeconds: number, iFAmps: number, vReverseVolts: number, drive: InputDrive): number {
+  if (!(ttSeconds > 0) || !(iFAmps > 0)) return 1;
+  const r = drive.andSourceOhms;
+  if (r !== undefined && r > 0) {
+    const iR = Math.max(1e-9, vReverseVolts) / r;
+    return (iR / iFAmps) * Math.log1p(iFAmps / iR);
+  }
+  return drive.edgeSeconds !== undefined && drive.edgeSeconds > 0 ? Math.exp(-drive.edgeSeconds / ttSeconds) : 1;
 }
 
 /** A junction diode's storage time when its forward current I_F is reversed to I_R: the stored

@@ -48,6 +48,8 @@ export class Ngspice {
 }
 
 export const LOAD_RP = 18000;
+/** Rise and fall time of the benches' input step (diode-AND inputs). */
+export const INPUT_EDGE_SECONDS = 1e-9;
 export const LOAD_VALUES = { rpOhms: LOAD_RP, rbOhms: 15000, rcOhms: 4300 };
 
 export interface Case {
@@ -86,7 +88,7 @@ export async function simulate(ng: Ngspice, c: Case, tempC = 27): Promise<{ tPHL
     `.options TEMP=${tempC} TNOM=27`,
   ];
   if (def.inputKind === "and") {
-    head.push(`VIN in 0 PWL(0 0.2 200n 0.2 201n ${vcc} ${us(tDown)} ${vcc} ${us(tDown + 1e-9)} 0.2 ${us(tEnd)} 0.2)`, "XD in vcc out vcc dut");
+    head.push(`VIN in 0 PWL(0 0.2 200n 0.2 ${us(200e-9 + INPUT_EDGE_SECONDS)} ${vcc} ${us(tDown)} ${vcc} ${us(tDown + INPUT_EDGE_SECONDS)} 0.2 ${us(tEnd)} 0.2)`, "XD in vcc out vcc dut");
   } else {
     head.push(`VC ctl 0 PWL(0 5 200n 5 201n 0 ${us(tDown)} 0 ${us(tDown + 1e-9)} 5 ${us(tEnd)} 5)`, `RS vcc in ${c.rs}`, "S1 in 0 ctl 0 GWSW", "XD in 0 out vcc dut");
   }
@@ -127,7 +129,7 @@ export function analytic(c: Case): CellTiming {
   };
   const drive: InputDrive =
     def.inputKind === "and"
-      ? { vLowMaxVolts: 0.2, vHighMinVolts: vcc, orSourceAmps: 0, orSourceOhms: Infinity, orSourceMaxAmps: 0, ...(c.andSourceOhms ? { andSourceOhms: c.andSourceOhms } : {}) }
+      ? { vLowMaxVolts: 0.2, vHighMinVolts: vcc, orSourceAmps: 0, orSourceOhms: Infinity, orSourceMaxAmps: 0, ...(c.andSourceOhms ? { andSourceOhms: c.andSourceOhms } : { edgeSeconds: INPUT_EDGE_SECONDS }) }
       : { vLowMaxVolts: 0.05, vHighMinVolts: clamp, orSourceAmps: (vcc - clamp) / c.rs!, orSourceOhms: c.rs!, orSourceMaxAmps: (vcc - clamp) / c.rs! };
   const op = def.analyze(values, env, load, drive);
   return cellTiming({ def, values, env, load, drive, op, npn: d.npn.params, diode: d.diode.params, fanin: 2, inputWiringFarads: 0, schottky: sch.params });

@@ -6,6 +6,7 @@ import { analytic } from "./fast-harness.js";
 import {
   diodeStorageSeconds,
   fallTimeSeconds,
+  inputStoredShare,
   loadDischargeSeconds,
   meanJunctionCapacitanceFarads,
   storageTimeConstantSeconds,
@@ -33,6 +34,31 @@ describe("charge control", () => {
   it("storage time constant from SPICE transit times (Ebers–Moll charge control, derived)", () => {
     // TF → 0, BF → ∞: τ_s = α_R·TR·(1 + BR) = BR·TR.
     expect(storageTimeConstantSeconds({ TF: 0, TR: 100e-9, BF: 1e12, BR: 1 })).toBeCloseTo(100e-9, 15);
+  });
+
+  it("forward bias above FC·VJ: SPICE's linear extension of the junction capacitance, continuous at FC·VJ", () => {
+    // SPICE 3f5 junction capacitance (ngspice manual, diode model): for V ≥ FC·VJ,
+    // C = CJ0/(1 − FC)^(1+M)·(1 − FC·(1 + M) + M·V/VJ); FC 0.5. CJ0 2 pF, VJ 0.75, M 0.33 at 0.6 V:
+    // 2 pF/0.5^1.33·(1 − 0.665 + 0.264) = 3.019 pF.
+    expect(meanJunctionCapacitanceFarads(2e-12, 0.75, 0.33, 0.6, 0.6) * 1e12).toBeCloseTo((2 / 0.5 ** 1.33) * (1 - 0.5 * 1.33 + (0.33 * 0.6) / 0.75), 9);
+    // Just below and just above the knee the graded formula and the extension agree:
+    // CJ0/(1 − FC)^M on both sides.
+    const below = meanJunctionCapacitanceFarads(2e-12, 0.75, 0.33, 0.375 - 1e-7, 0.375 - 1e-7);
+    const above = meanJunctionCapacitanceFarads(2e-12, 0.75, 0.33, 0.375 + 1e-7, 0.375 + 1e-7);
+    expect(above / below).toBeCloseTo(1, 5);
+    // The mean over a range spanning the knee is the charge difference over the voltage.
+    const m = meanJunctionCapacitanceFarads(2e-12, 0.75, 0.33, 0, 0.6);
+    expect(m).toBeGreaterThan(2e-12);
+    expect(m).toBeLessThan(3.019e-12);
+  });
+
+  it("stored charge reaching the node: (I_R/I_F)·ln(1 + I_F/I_R) behind a pull-up, e^(−t_e/τ_T) behind a step (charge control of reverse recovery, derived)", () => {
+    // I_R = I_F: ln 2 of τ_T·I_F arrives, the rest recombines while it is cleared.
+    const drive = { vLowMaxVolts: 0.2, vHighMinVolts: 5, orSourceAmps: 0, orSourceOhms: Infinity, orSourceMaxAmps: 0 };
+    expect(inputStoredShare(4e-9, 1e-3, 3, { ...drive, andSourceOhms: 3000 })).toBeCloseTo(Math.log(2), 12);
+    // A stiff source clears it at once: all of it; with a 1 ns rise over τ_T 4 ns, e^(−1/4).
+    expect(inputStoredShare(4e-9, 1e-3, 3, drive)).toBe(1);
+    expect(inputStoredShare(4e-9, 1e-3, 3, { ...drive, edgeSeconds: 1e-9 })).toBeCloseTo(Math.exp(-0.25), 12);
   });
 
   it("mean depletion capacitance is CJ0 at zero bias and smaller under reverse bias", () => {
