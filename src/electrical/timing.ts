@@ -415,9 +415,27 @@ export function cellTiming(t: TimingInputs): CellTiming {
   const cRise = load.capacitanceFarads + cTiedRise + cjcRise;
   let tRise = millerLimitedRiseSeconds(vOL, v50, vcc, rc, cRise, iB2, cjcRise);
   if (qSpare > 0 && cjcRise > 0 && v50 > vOL) {
-    // The capacitor's spare charge takes the Miller charge in R_B's place, as far as it goes.
-    const tRc = millerLimitedRiseSeconds(vOL, v50, vcc, rc, cRise, iB2, 0);
-    tRise = tRc + (tRise - tRc) * Math.max(0, 1 - qSpare / (cjcRise * (v50 - vOL)));
+    // The capacitor's spare charge takes the Miller charge in R_B's place as far as it goes: the
+    // output rises R_C-limited up to the level where that charge is used up (the knee: ngspice
+    // shows the base climbing back from below cut-in meanwhile), then Miller-limited on R_B's
+    // current as before, with the collector junction's (and clamp's) capacitance over that
+    // upper part of the swing.
+    const cjcOver = (a: number, b: number): number => jc.mean(vBE - a, vBE - b) + (js ? js.mean(vBE - a, vBE - b) : 0);
+    // R_B's current takes Miller charge too meanwhile (rounds settle the knee and the time).
+    let vKnee = Math.min(v50, vOL + qSpare / cjcRise);
+    let tLower = 0;
+    for (let k = 0; k < 3; k++) {
+      tLower = millerLimitedRiseSeconds(vOL, vKnee, vcc, rc, cRise, iB2, 0);
+      if (vKnee >= v50) break;
+      vKnee = Math.min(v50, vOL + (qSpare + iB2 * tLower) / cjcOver(vOL, vKnee));
+    }
+    tLower = millerLimitedRiseSeconds(vOL, vKnee, vcc, rc, cRise, iB2, 0);
+    let tUpper = 0;
+    if (vKnee < v50) {
+      const cjcUp = cjcOver(vKnee, v50);
+      tUpper = millerLimitedRiseSeconds(vKnee, v50, vcc, rc, load.capacitanceFarads + cTiedRise + cjcUp, iB2, cjcUp);
+    }
+    tRise = tLower + tUpper;
   }
   // A capacitor that brings more than the stored and active charge drives the base below its low
   // level, and the collector, still tied to it by the saturated collector junction's stored

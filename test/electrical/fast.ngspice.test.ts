@@ -47,7 +47,7 @@ const CASES: Case[] = [
 ];
 
 /** Cases whose t_PLH estimate is known to run slow (cell and supply; see below). */
-const SLOW_RISE = new Set(["nor-cap 5", "nand-hifan-fast 15"]);
+const SLOW_RISE = new Set(["nor-cap 5"]);
 
 describe("fast variants: analytic delays against ngspice (grid not used for tuning)", () => {
   for (const c of CASES) {
@@ -59,11 +59,13 @@ describe("fast variants: analytic delays against ngspice (grid not used for tuni
       const pd = (est.tPHLSeconds + est.tPLHSeconds) / (sim.tPHL + sim.tPLH);
       ratios.push(`${c.def.id} ${c.vcc} V: t_PHL ${(sim.tPHL * 1e9).toFixed(1)} ns (×${fall.toFixed(2)}), t_PLH ${(sim.tPLH * 1e9).toFixed(1)} ns (×${rise.toFixed(2)})`);
       // ngspice transient (embedded): t_PLH within ±30 %, and t_pd = (t_PHL + t_PLH)/2 (common
-      // practice) within ±30 %. Two cases of the second grid miss on t_PLH, both on the slow
-      // (safe) side, and are held (with their t_pd, which t_PLH dominates) to 0.7–1.6 (listed in src/electrical/STATUS.md): the NOR whose
-      // 68 pF capacitors remove about exactly the stored charge (the estimate is steep there, as
-      // the storage time falls to nothing), 1.51; the clamped high-fan-out cell with a capacitor
-      // at 15 V, 1.47.
+      // practice) within ±30 %. One case of the second grid misses on t_PLH, on the slow (safe)
+      // side, and is held (with its t_pd, which t_PLH dominates) to 0.7–1.6 (listed in
+      // src/electrical/STATUS.md): the NOR whose 68 pF capacitors remove about exactly the stored
+      // charge, 1.51 (the estimate is steep there, as the storage time falls to nothing). The
+      // clamped high-fan-out cell with a capacitor at 15 V read 1.47 until the rise was split at
+      // the knee where the capacitor's spare charge runs out (worked out on the development
+      // grid); it is held to ±30 % with the rest.
       const riseExempt = SLOW_RISE.has(`${c.def.id} ${c.vcc}`);
       expect(rise, `t_PLH ${est.tPLHSeconds} s against ${sim.tPLH} s`).toBeGreaterThan(0.7);
       expect(rise, `t_PLH ${est.tPLHSeconds} s against ${sim.tPLH} s`).toBeLessThan(riseExempt ? 1.6 : 1.3);

@@ -29,6 +29,8 @@ const CASES: Case[] = [
   { def: byId("nor-cap"), values: { rbOhms: 30000, rcOhms: 12000, csuFarads: 47e-12 }, vcc: 15, loads: 3, rs: 15000 },
   { def: byId("nor-cap"), values: { rbOhms: 8200, rcOhms: 3900, csuFarads: 82e-12 }, vcc: 6, loads: 4, rs: 3300 },
   { def: byId("nor-cap"), values: { rbOhms: 12000, rcOhms: 4700, csuFarads: 100e-12 }, vcc: 5, loads: 3, rs: 4700 },
+  { def: byId("nor-cap"), values: { rbOhms: 8200, rcOhms: 3900, csuFarads: 100e-12 }, vcc: 5, loads: 4, rs: 3300 },
+  { def: byId("nor-cap"), values: { rbOhms: 12000, rcOhms: 4700, csuFarads: 56e-12 }, vcc: 5, loads: 4, rs: 4700 },
   { def: byId("nand-hifan-fast"), values: { rxOhms: 10000, rpOhms: 33000, rbOhms: 22000, rcOhms: 12000, csuFarads: 47e-12 }, vcc: 15, loads: 4 },
   { def: byId("nand-hifan-fast"), values: { rxOhms: 6800, rpOhms: 22000, rbOhms: 15000, rcOhms: 8200, csuFarads: 22e-12 }, vcc: 12, loads: 6 },
   { def: byId("nand-fast"), values: { rpOhms: 27000, rbOhms: 22000, rcOhms: 10000, csuFarads: 47e-12 }, vcc: 15, loads: 4 },
