@@ -4,7 +4,11 @@
 //      candidate) for 1 load;
 //   2. per-gate sizing of a generated 1,000-gate network (test/bench/designs.ts, randomNetwork),
 //      read, optimized at level 0 (as written) and mapped onto NAND cells, then sized uniform and
-//      per gate, E24 and E96.
+//      per gate, E24 and E96;
+//   3. the fast-variant plan search under a gate delay budget (src/electrical/size.ts,
+//      attemptFast): a two-input XOR (test/fixtures/logic/xor2.logic) mapped onto mixed cells as
+//      synth maps it, at budgets the basic cells miss: met, narrowly refused, far out of reach
+//      (refused by the delay screen). One run each (tens of seconds).
 // Figures are medians of several runs; nothing is asserted (the tests check correctness).
 // Exported as `sizeBench(runs)` so a driver can run it and collect its tables.
 import { pathToFileURL } from "node:url";
@@ -17,6 +21,7 @@ import { readDesign } from "../../src/pipeline/front.js";
 import { netlistOf } from "../electrical/fixtures.js";
 import { randomNetwork } from "./designs.js";
 import { median, table } from "./format.js";
+import { readFileSync } from "node:fs";
 
 
 function timeSizing(netlist: CellNetlist, options: SizingOptions, runs: number) {
@@ -83,6 +88,25 @@ export function sizeBench(runs = 5): string {
   }
   out.push(`\nSizing a generated 1,000-gate network (${big.cells.length} NAND cells after mapping, ${big.nets.length} nets; built in ${prepMs.toFixed(0)} ms; median of ${bigRuns})\n`);
   out.push(table(["series", "mode", "sized", "worst-case mW", "distinct R", "ms"], bigRows));
+
+  // ---- 3. fast-variant plan search --------------------------------------------------------------
+  const file = "test/fixtures/logic/xor2.logic";
+  const front = readDesign(readFileSync(file, "utf8"), file);
+  if (!front.graph) throw new Error(front.diagnostics.map((x) => x.message).join("; "));
+  const names = front.keptNames ?? front.stateNames;
+  const xorOpt = optimizeDesign(front.graph, { stateNames: names, maxFanin: 8, level: 2, cells: "mixed" });
+  const xor = mapToCells(xorOpt.graph, { stateNames: names, maxFanin: 8, cells: "mixed" }).value!;
+  const planRows: (string | number)[][] = [];
+  for (const budget of [60e-9, 8e-9, 2e-9, 0.5e-9]) {
+    const t1 = performance.now();
+    const r = sizeDesign(xor, { supplyVolts: 5, gateDelayMaxSeconds: budget });
+    const ms = performance.now() - t1;
+    const fast = r.diagnostics.find((d) => d.code === "GW5010");
+    const chosen = r.value ? [...new Set(r.value.cellTypes.map((t) => t.cellId))].join(", ") : "refused (GW5001)";
+    planRows.push([`${Number((budget * 1e9).toPrecision(3))} ns`, chosen + (r.value && !fast ? " (basic cells meet it)" : ""), (ms / 1e3).toFixed(1)]);
+  }
+  out.push(`\nFast-variant plan search: ${file}, ${xor.cells.length} mixed cells, 5 V ±5 %, 0–70 °C (one run each)\n`);
+  out.push(table(["gate budget", "cells chosen", "s"], planRows));
   return out.join("\n");
 }
 
