@@ -2,6 +2,17 @@
 // and nets, move loads, and renumber everything compactly at the end.
 import type { CellFunction, CellInstance, CellNetlist, Net, NetLoad } from "./types.js";
 
+/** Whether a name ends in "_" and at least one digit (as `NetlistEditor.newNet`'s names do). */
+function endsInNumberSuffix(name: string): boolean {
+  let i = name.length - 1;
+  while (i >= 0) {
+    const c = name.charCodeAt(i);
+    if (c < 48 || c > 57) break;
+    i--;
+  }
+  return i < name.length - 1 && i >= 0 && name.charCodeAt(i) === 95;
+}
+
 export class NetlistEditor {
   readonly nets: Net[];
   readonly cells: CellInstance[];
@@ -24,7 +35,9 @@ export class NetlistEditor {
       });
       this.cells = base.cells.map((c) => ({ ...c, inputs: [...c.inputs] }));
     }
-    for (const n of this.nets) this.names.add(n.name);
+    // newNet only asks about names of the form `<base>_<k>`: only names ending in an underscore
+    // and digits can be one of them, so only those are registered.
+    for (const n of this.nets) if (endsInNumberSuffix(n.name)) this.names.add(n.name);
   }
 
   isStateNet(net: number): boolean {
