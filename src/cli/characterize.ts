@@ -5,7 +5,7 @@
 import { diag, hasErrors, type Diagnostic } from "../diagnostics/index.js";
 import { characterizeDesign } from "../characterize/run.js";
 import type { Characterization } from "../characterize/types.js";
-import { emitDesign, type OutputFile } from "../emit/index.js";
+import { emitDesign, type EmitContext, type OutputFile } from "../emit/index.js";
 import { eng } from "../emit/format.js";
 import type { Synthesis } from "../pipeline/synthesize.js";
 import { embeddedSimulator, simulatorMissing } from "../simulate/engine.js";
@@ -14,8 +14,9 @@ import { ProgressBar } from "./verify.js";
 export interface CharacterizeOutcome {
   diagnostics: Diagnostic[];
   characterization?: Characterization;
-  /** The synthesis's files emitted again with the characterization. */
+  /** The synthesis's files emitted again with the characterization, and what they came from. */
   files?: OutputFile[];
+  emitContext?: EmitContext;
   /** One line for the terminal. */
   summary?: string;
 }
@@ -44,6 +45,7 @@ export async function characterizeSynthesis(result: Synthesis, io: { err: { writ
   const ch = r.value;
   const corners = ch.cells[0]?.corners.length ?? 0;
   out.summary = `characterized ${ch.cells.length} cell type${ch.cells.length === 1 ? "" : "s"} in ngspice at ${corners} corner${corners === 1 ? "" : "s"} (${ch.runs} runs, ${eng(ch.elapsedMs / 1000, "s")}): ${ch.pass && !hasErrors(r.diagnostics) ? "every check passes" : "FAILS"}`;
-  out.files = emitDesign({ ...result.emitContext, characterization: ch });
+  out.emitContext = { ...result.emitContext, characterization: ch };
+  out.files = emitDesign(out.emitContext);
   return out;
 }

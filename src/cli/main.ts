@@ -10,8 +10,8 @@ import { writeOutputs } from "./write.js";
 import { joinNegativeValues, prepareSynthesis, repeatedOptions, type SynthesisArgs } from "./options.js";
 import { optimizeFlags } from "./optimize-options.js";
 import { eng } from "../emit/format.js";
-import { fileNamesOf } from "../emit/index.js";
-import { filesWithInputHash, synthesisHash } from "../verify/reuse.js";
+import { emitDesign, type EmitContext } from "../emit/index.js";
+import { synthesisHash } from "../verify/reuse.js";
 import { runVerify, verifyFlags, type VerifyArgs } from "./verify.js";
 import { characterizeSynthesis } from "./characterize.js";
 
@@ -81,6 +81,7 @@ export async function runSynth(args: SynthArgs, argv: string[], io: Io): Promise
   }
   // --characterize: the sized cells measured in ngspice; the files emitted again with the figures.
   let characterizedText: string | undefined;
+  let characterizedContext: EmitContext | undefined;
   if (args.characterize) {
     const c = await characterizeSynthesis(result, io);
     printDiagnostics(args.quiet ? c.diagnostics.filter((d) => d.severity === "error") : c.diagnostics, sources, io.err);
@@ -89,10 +90,13 @@ export async function runSynth(args: SynthArgs, argv: string[], io: Io): Promise
       return EXIT.design;
     }
     result.files = c.files;
+    characterizedContext = c.emitContext;
     characterizedText = c.summary;
   }
   // The hash of source and options lets `verify` reuse these files as they are.
-  const hashed = filesWithInputHash(result.files, fileNamesOf(result.design!.netlist.name).json, synthesisHash(TOOL.version, text, opts as unknown as Record<string, unknown>));
+  // The files are emitted again with it (nothing was made yet: each file's text is made as it is
+  // written), so the JSON is written once, hash included.
+  const hashed = emitDesign({ ...(characterizedContext ?? result.emitContext!), inputHash: synthesisHash(TOOL.version, text, opts as unknown as Record<string, unknown>) });
   const w = writeOutputs(args.out, hashed, { force: !!args.force });
   if (w.error) {
     printDiagnostics([diag(w.error.code, w.error.message)], sources, io.err);

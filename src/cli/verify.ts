@@ -6,12 +6,12 @@ import { existsSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import type { Argv } from "yargs";
 import { appendDiagnostics, diag, hasErrors, type Diagnostic } from "../diagnostics/index.js";
-import { fileNamesOf } from "../emit/index.js";
+import { emitDesign, fileNamesOf } from "../emit/index.js";
 import { synthesize } from "../pipeline/synthesize.js";
 import { TOOL } from "../pipeline/tool.js";
 import { embeddedSimulator, simulatorMissing, systemSimulator, type Simulator } from "../simulate/engine.js";
 import { bomCsvWithBypass, bomMarkdownWithBypass } from "../verify/decoupling.js";
-import { filesWithInputHash, storedInputHash, synthesisHash } from "../verify/reuse.js";
+import { storedInputHash, synthesisHash } from "../verify/reuse.js";
 import { renderSummary, renderVerifyReport, verifyJson } from "../verify/summary.js";
 import { verifyDesign, type VerifyProgress } from "../verify/verify.js";
 import { prepareSynthesis, wholeNumberOption, type SynthesisArgs } from "./options.js";
@@ -149,7 +149,8 @@ export async function runVerify(args: VerifyArgs, argv: string[], io: VerifyIo):
     }
   }
   if (!reused) {
-    const w = writeOutputs(args.out, filesWithInputHash(s.files, names.json, hash), { force: !!args.force });
+    // Emitted again with the hash (each file's text is made as it is written): the JSON once.
+    const w = writeOutputs(args.out, emitDesign({ ...s.emitContext!, inputHash: hash }), { force: !!args.force });
     if (w.error) {
       await simulator.close?.();
       printDiagnostics([diag(w.error.code, w.error.message)], sources, io.err);

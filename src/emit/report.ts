@@ -6,7 +6,7 @@ import { wiredNetsOf } from "./spice.js";
 import { eng, num, parameterText } from "./format.js";
 import { renderTo } from "./render.js";
 import type { TextSink } from "./output.js";
-import { generatedBy, type EmitContext } from "./context.js";
+import { generatedBy, INPUT_HASH_KEY, type EmitContext } from "./context.js";
 import { stateJson, stateSummaryText, stateView } from "../sequential/report-view.js";
 import { characterizationView } from "../characterize/view.js";
 
@@ -227,6 +227,7 @@ function jsonDocument(ctx: EmitContext, files: { name: string; what: string }[])
   const rows = bomRows(d);
   return {
     generator: { name: ctx.tool.name, version: ctx.tool.version, note: generatedBy(ctx) },
+    ...(ctx.inputHash !== undefined ? { [INPUT_HASH_KEY]: ctx.inputHash } : {}),
     design: nl.name,
     source: ctx.sourceFile,
     inputs: nl.inputs.map((i) => nl.nets[i]!.name),

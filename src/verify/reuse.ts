@@ -3,9 +3,11 @@
 // on disk are the ones this source and these options make, and simulate them as they are
 // instead of rewriting them. Pure (hashing is a function of its input).
 import { createHash } from "node:crypto";
+import { INPUT_HASH_KEY } from "../emit/context.js";
 
-/** Key under which the hash is stored in the generated JSON. */
-export const INPUT_HASH_KEY = "inputHash";
+/** Key under which the hash is stored in the generated JSON (the JSON writer puts it there when
+ *  the emit context carries it: EmitContext.inputHash). */
+export { INPUT_HASH_KEY };
 
 /** JSON with object keys in sorted order, so equal options give equal text. */
 function stableJson(x: unknown): string {
@@ -62,7 +64,9 @@ export function storedInputHash(jsonText: string): string | undefined {
   }
 }
 
-/** The files of a run with the hash put into its JSON file (named `jsonName`). */
+/** The files of a run with the hash put into its JSON file (named `jsonName`), by reading the
+ *  JSON text back. The CLI emits the files with `EmitContext.inputHash` instead, which writes the
+ *  same text once. */
 export function filesWithInputHash<T extends { name: string; content: string }>(files: readonly T[], jsonName: string, hash: string): T[] {
   return files.map((f) => (f.name === jsonName ? { ...f, content: withInputHash(f.content, hash) } : f));
 }
