@@ -35,32 +35,57 @@ export interface Situation {
 }
 
 export interface NetLoading {
-  andLoadsByType: Map<string, number>;
+  /** Diode-AND loads per load cell id, [cellId, count], in order of cell id. */
+  andLoadsByType: [string, number][];
+  /** The same as text, "id:count,id:count" (part of a situation's key). */
+  andLoadsText: string;
   andLoads: number;
   orLoads: number;
   pins: number;
 }
 
 /** Loads on every net: distinct load cells by input kind (two pins of one cell on one net are
- *  one load: they share that cell's pull-up or base). */
+ *  one load: they share that cell's pull-up or base). Nets with the same diode-AND loads share
+ *  one `andLoadsByType` list (read only). */
 export function netLoading(netlist: CellNetlist, defs: readonly CellDefinition[]): NetLoading[] {
-  return netlist.nets.map((net) => {
-    const seen = new Set<number>();
-    const andLoadsByType = new Map<string, number>();
+  // The diode-AND cell ids, in the order the lists give them.
+  const andIds: string[] = [];
+  for (const d of defs) if (d.inputKind === "and" && !andIds.includes(d.id)) andIds.push(d.id);
+  andIds.sort((a, b) => (a < b ? -1 : a > b ? 1 : 0));
+  const andIndex = new Map(andIds.map((id, i) => [id, i] as const));
+  const kindOf = defs.map((d) => (d.inputKind === "and" ? andIndex.get(d.id)! : -1));
+  const counts = new Int32Array(andIds.length);
+  // The last net each cell was counted on (a cell with two pins on one net is one load).
+  const seenOn = new Int32Array(netlist.cells.length).fill(-1);
+  const lists = new Map<string, [string, number][]>();
+  return netlist.nets.map((net, ni) => {
     let andLoads = 0;
     let orLoads = 0;
     for (const l of net.loads) {
-      if (seen.has(l.cell)) continue;
-      seen.add(l.cell);
-      const def = defs[l.cell]!;
-      if (def.inputKind === "and") {
+      if (seenOn[l.cell] === ni) continue;
+      seenOn[l.cell] = ni;
+      const k = kindOf[l.cell]!;
+      if (k >= 0) {
         andLoads++;
-        andLoadsByType.set(def.id, (andLoadsByType.get(def.id) ?? 0) + 1);
+        counts[k]!++;
       } else {
         orLoads++;
       }
     }
-    return { andLoadsByType, andLoads, orLoads, pins: net.loads.length };
+    let andLoadsText = "";
+    if (andLoads > 0)
+      for (let k = 0; k < andIds.length; k++) {
+        if (counts[k] === 0) continue;
+        andLoadsText += `${andLoadsText ? "," : ""}${andIds[k]}:${counts[k]}`;
+      }
+    let andLoadsByType = lists.get(andLoadsText);
+    if (!andLoadsByType) {
+      andLoadsByType = [];
+      for (let k = 0; k < andIds.length; k++) if (counts[k]! > 0) andLoadsByType.push([andIds[k]!, counts[k]!]);
+      lists.set(andLoadsText, andLoadsByType);
+    }
+    if (andLoads > 0) counts.fill(0);
+    return { andLoadsByType, andLoadsText, andLoads, orLoads, pins: net.loads.length };
   });
 }
 
@@ -97,17 +122,21 @@ export function buildSituations(
   const byCell: number[] = [];
   const wiredTerms = opts.wired !== false;
   const collectors = collectorsOnNets(netlist);
+  const overrideLoads: [string, number][] | undefined = opts.fanoutOverride === undefined ? undefined : heaviestAndType !== undefined ? [[heaviestAndType, opts.fanoutOverride]] : [];
+  const overrideText = overrideLoads?.map(([t, c]) => `${t}:${c}`).join(",");
   for (const cell of netlist.cells) {
     const def = defs[cell.index]!;
     const out = loading[cell.output]!;
-    let andLoadsByType = [...out.andLoadsByType.entries()].sort((a, b) => (a[0] < b[0] ? -1 : a[0] > b[0] ? 1 : 0));
+    let andLoadsByType = out.andLoadsByType;
+    let andLoadsText = out.andLoadsText;
     let andLoads = out.andLoads;
     let orLoads = out.orLoads;
     let loadPins = out.pins;
     const f = opts.fanoutOverride;
     if (f !== undefined) {
       andLoads = f;
-      andLoadsByType = heaviestAndType !== undefined ? [[heaviestAndType, f]] : [];
+      andLoadsByType = overrideLoads!;
+      andLoadsText = overrideText!;
       orLoads = hasOr ? f : 0;
       loadPins = Math.max(loadPins, f);
     }
@@ -134,9 +163,8 @@ export function buildSituations(
         inputWiredCollectors = Math.max(inputWiredCollectors, collectors[n]!);
         inputWiredAndLoads = Math.max(inputWiredAndLoads, loading[n]!.andLoads);
       }
-    const wiredKey = [ownsPullUp ? "" : `tied:${pullUpCellId}`, tiedCollectors, inputWiredCollectors, inputWiredAndLoads].join("/");
     const key = opts.group
-      ? [def.id, fanin, andLoadsByType.map(([t, c]) => `${t}:${c}`).join(","), orLoads, loadPins, inputsSeeOrClamp ? 1 : 0, orDriveLoads, wiredKey].join("|")
+      ? `${def.id}|${fanin}|${andLoadsText}|${orLoads}|${loadPins}|${inputsSeeOrClamp ? 1 : 0}|${orDriveLoads}|${ownsPullUp ? "" : `tied:${pullUpCellId}`}/${tiedCollectors}/${inputWiredCollectors}/${inputWiredAndLoads}`
       : `cell${cell.index}`;
     let si = index.get(key);
     if (si === undefined) {
@@ -147,7 +175,7 @@ export function buildSituations(
         def,
         fanin,
         cells: [],
-        andLoadsByType,
+        andLoadsByType: andLoadsByType.map(([t, c]) => [t, c]),
         andLoads,
         orLoads,
         loadPins,

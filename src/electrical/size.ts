@@ -214,11 +214,22 @@ function makeUniformCtx(
   return ctx;
 }
 
-function sizeUniform(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv): Outcome {
-  const { situations, byCell } = buildSituations(netlist, defs, { group: true, ...(u.o.fanoutOverride !== undefined ? { fanoutOverride: u.o.fanoutOverride } : {}), ...(u.wired === false ? { wired: false } : {}) });
+/** The grouped load situations sizeUniform works on. */
+function uniformSituations(netlist: CellNetlist, defs: readonly CellDefinition[], u: UniformEnv): { situations: Situation[]; byCell: number[] } {
+  return buildSituations(netlist, defs, { group: true, ...(u.o.fanoutOverride !== undefined ? { fanoutOverride: u.o.fanoutOverride } : {}), ...(u.wired === false ? { wired: false } : {}) });
+}
+
+/** `situated`: the situations of these cells under `u` (uniformSituations), when the caller has
+ *  them already; they are read, never changed. */
+function sizeUniform(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv, situated?: { situations: Situation[]; byCell: number[] }): Outcome {
+  const { situations, byCell } = situated ?? uniformSituations(netlist, defs, u);
   const types = uniqueDefs(situations);
   const sitsOf = new Map<string, Situation[]>();
-  for (const s of situations) sitsOf.set(s.def.id, [...(sitsOf.get(s.def.id) ?? []), s]);
+  for (const s of situations) {
+    const list = sitsOf.get(s.def.id);
+    if (list) list.push(s);
+    else sitsOf.set(s.def.id, [s]);
+  }
   const stageA = types.filter((d) => !isFanoutVariant(d));
   const stageB = types.filter((d) => isFanoutVariant(d));
   const grid = u.grid;
@@ -499,35 +510,43 @@ function sizeForced(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv,
 function criticalPath(netlist: CellNetlist, delays: { fall: number; rise: number }[], budget?: number): PathTiming | undefined {
   const nCells = netlist.cells.length;
   if (nCells === 0) return undefined;
-  const stateNets = new Set(netlist.stateNets);
-  const driverCell = (net: number): number | undefined => {
-    const d = netlist.nets[net]?.driver;
-    return d && d.kind === "cell" && !stateNets.has(net) ? d.cell : undefined;
-  };
-  const indeg = new Array<number>(nCells).fill(0);
-  const users: number[][] = Array.from({ length: nCells }, () => []);
+  // The cell driving each net (−1: an input, a tie or a state net, where paths start).
+  const driverOf = new Int32Array(netlist.nets.length).fill(-1);
+  netlist.nets.forEach((net, i) => {
+    if (net.driver.kind === "cell") driverOf[i] = net.driver.cell;
+  });
+  for (const n of netlist.stateNets) driverOf[n] = -1;
+  // Each cell's users (one entry per input pin it drives), in cell and pin order.
+  const indeg = new Int32Array(nCells);
+  const userCount = new Int32Array(nCells + 1);
   for (const c of netlist.cells)
     for (const n of c.inputs) {
-      const d = driverCell(n);
-      if (d !== undefined) {
+      const d = driverOf[n]!;
+      if (d >= 0) {
         indeg[c.index]!++;
-        users[d]!.push(c.index);
+        userCount[d + 1]!++;
       }
     }
+  for (let i = 0; i < nCells; i++) userCount[i + 1]! += userCount[i]!;
+  const users = new Int32Array(userCount[nCells]!);
+  const fill = userCount.slice(0, nCells);
+  for (const c of netlist.cells)
+    for (const n of c.inputs) {
+      const d = driverOf[n]!;
+      if (d >= 0) users[fill[d]!++] = c.index;
+    }
   const order: number[] = [];
-  const queue: number[] = [];
-  for (let i = 0; i < nCells; i++) if (indeg[i] === 0) queue.push(i);
-  while (queue.length) {
-    const c = queue.shift()!;
-    order.push(c);
-    for (const x of users[c]!) if (--indeg[x]! === 0) queue.push(x);
+  for (let i = 0; i < nCells; i++) if (indeg[i] === 0) order.push(i);
+  for (let head = 0; head < order.length; head++) {
+    const c = order[head]!;
+    for (let k = userCount[c]!; k < userCount[c + 1]!; k++) if (--indeg[users[k]!]! === 0) order.push(users[k]!);
   }
   // Arrival of each cell's output falling and rising; inverting cells: a fall follows a rise.
-  const fall = new Array<number>(nCells).fill(0);
-  const rise = new Array<number>(nCells).fill(0);
-  const fallFrom = new Array<number>(nCells).fill(-1);
-  const riseFrom = new Array<number>(nCells).fill(-1);
-  const depth = new Array<number>(nCells).fill(1);
+  const fall = new Float64Array(nCells);
+  const rise = new Float64Array(nCells);
+  const fallFrom = new Int32Array(nCells).fill(-1);
+  const riseFrom = new Int32Array(nCells).fill(-1);
+  const depth = new Int32Array(nCells).fill(1);
   for (const c of order) {
     const cell = netlist.cells[c]!;
     let inRise = 0;
@@ -536,8 +555,8 @@ function criticalPath(netlist: CellNetlist, delays: { fall: number; rise: number
     let fFrom = -1;
     let dep = 0;
     for (const n of cell.inputs) {
-      const d = driverCell(n);
-      if (d === undefined) continue;
+      const d = driverOf[n]!;
+      if (d < 0) continue;
       if (rise[d]! > inRise || rFrom < 0) {
         if (rise[d]! >= inRise) {
           inRise = rise[d]!;
@@ -627,8 +646,16 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
   const typeSits: number[][] = [];
   const typeOfCell: number[] = [];
   const valueSetsPerShape = new Map<string, string[]>();
+  // The type each situation's cells take, found at its first cell (types are in order of first use).
+  const typeOfSit: number[] = [];
   for (const cell of netlist.cells) {
     const si = sized.byCell[cell.index]!;
+    const known = typeOfSit[si];
+    if (known !== undefined) {
+      cellTypes[known]!.cells.push(cell.index);
+      typeOfCell.push(known);
+      continue;
+    }
     const s = sized.situations[si]!;
     const values = sized.valuesBySituation[si]!;
     const vkey = s.def.parameters.map((p) => `${p.key}=${values[p.key]}`).join(",");
@@ -667,39 +694,45 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
     }
     cellTypes[ti]!.cells.push(cell.index);
     if (!typeSits[ti]!.includes(si)) typeSits[ti]!.push(si);
+    typeOfSit[si] = ti;
     typeOfCell.push(ti);
   }
   cellTypes.forEach((t, i) => (t.analysis = mergeAnalyses(typeSits[i]!.map((si) => analyses[si]!))));
 
-  // Designators: a pure function of cell order and each cell's topology.
+  // Designators: a pure function of cell order and each cell's topology. Everything else about
+  // a part (value, text, rating, warnings) depends only on its cell's situation: it is worked
+  // out once per situation, at the situation's first cell (so warnings come in cell order), and
+  // each cell copies it with its own designator.
   const counters: Record<string, number> = { R: 0, D: 0, Q: 0, C: 0 };
   const instances: SizedInstance[] = [];
   const components: Component[] = [];
   const ratingWarned = new Set<string>();
-  for (const cell of netlist.cells) {
-    const si = sized.byCell[cell.index]!;
+  const partsBySit: { kinds: Component["kind"][]; names: string[]; parts: Component[] }[] = [];
+  const partsOf = (si: number): (typeof partsBySit)[number] => {
+    const known = partsBySit[si];
+    if (known) return known;
     const s = sized.situations[si]!;
     const values = sized.valuesBySituation[si]!;
     const topo = topologyOf(s);
-    const designators: Record<string, string> = {};
     const st = stressesBySit[si]!;
+    const made: (typeof partsBySit)[number] = { kinds: [], names: [], parts: [] };
     for (const comp of topo.components) {
-      counters[comp.kind] = (counters[comp.kind] ?? 0) + 1;
-      const des = `${comp.kind}${counters[comp.kind]}`;
-      designators[comp.name] = des;
+      const des = "";
       const stress = st.get(comp.name);
+      let part: Component;
       if (comp.kind === "R") {
         const ohms = values[comp.valueKey!]!;
         const watts = stress?.powerWatts ?? 0;
         const rating = chooseResistorRating(watts);
+        const text = formatOhms(ohms);
         const c: Component = {
           designator: des,
           kind: "R",
           value: ohms,
-          valueText: formatOhms(ohms),
+          valueText: text,
           tolerance: tol,
-          description: `resistor ${formatOhms(ohms)} ${formatPercent(tol)}, ${rating !== undefined ? formatRating(rating) : "over 2 W"}`,
-          instance: cell.index,
+          description: `resistor ${text} ${formatPercent(tol)}, ${rating !== undefined ? formatRating(rating) : "over 2 W"}`,
+          instance: -1,
           role: comp.name,
           worstPowerWatts: watts,
         };
@@ -712,7 +745,7 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
             diagnostics.push(diag("GW5002", `${comp.name} of ${s.def.title} dissipates up to ${fmt(watts)} W, more than half of the largest standard rating (2 W)`, undefined, { hint: "use larger resistor values, a lower supply, or a power resistor rated for it" }));
           }
         }
-        components.push(c);
+        part = c;
       } else if (comp.kind === "C") {
         // Speed-up capacitor (fast variants): ceramic, the value the plan chose.
         const farads = values[comp.valueKey ?? CAPACITOR_KEY] ?? 0;
@@ -726,11 +759,11 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
           valueText: `${formatFarads(farads)}F`,
           tolerance: ctol,
           description: `ceramic capacitor ${formatFarads(farads)}F ${formatPercent(ctol)}, ${rated !== undefined ? `${rated} V` : `over ${CAPACITOR_VOLTAGE_RATINGS[CAPACITOR_VOLTAGE_RATINGS.length - 1]} V`}, C0G/NP0 (speed-up)`,
-          instance: cell.index,
+          instance: -1,
           role: comp.name,
         };
         if (rated !== undefined) c.voltageRatingVolts = rated;
-        components.push(c);
+        part = c;
       } else {
         const isDiode = comp.kind === "D";
         const sch = comp.model === "schottky" ? (o.devices.schottky ?? DEFAULT_SCHOTTKY) : undefined;
@@ -743,12 +776,12 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
           value: 0,
           valueText: card.partNumber ?? card.name,
           description: card.description,
-          instance: cell.index,
+          instance: -1,
           role: comp.name,
         };
         if (card.partNumber !== undefined) c.partNumber = card.partNumber;
         if (stress) c.worstPowerWatts = stress.powerWatts;
-        components.push(c);
+        part = c;
         // Ratings of the semiconductors.
         if (stress) {
           const w = `${s.def.id}/${comp.name}`;
@@ -767,8 +800,27 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
           }
         }
       }
+      made.kinds.push(comp.kind);
+      made.names.push(comp.name);
+      made.parts.push(part);
     }
-    instances.push({ cell: cell.index, cellType: typeOfCell[cell.index]!, designators, analysis: analyses[si]! });
+    partsBySit[si] = made;
+    return made;
+  };
+  for (const cell of netlist.cells) {
+    const si = sized.byCell[cell.index]!;
+    const { kinds, names, parts } = partsOf(si);
+    const designators: Record<string, string> = {};
+    for (let k = 0; k < parts.length; k++) {
+      const kind = kinds[k]!;
+      const des = `${kind}${(counters[kind] = (counters[kind] ?? 0) + 1)}`;
+      designators[names[k]!] = des;
+      const c = { ...parts[k]! };
+      c.designator = des;
+      c.instance = cell.index;
+      components.push(c);
+    }
+    instances.push({ cell: cell.index, cellType: typeOfCell[cell.index]!, designators, analysis: analyses[sized.byCell[cell.index]!]! });
   }
 
   // Totals.
@@ -925,21 +977,24 @@ const SCREEN_STEP = 4;
 function attemptAll(netlist: CellNetlist, u: UniformEnv): Attempt {
   const o = u.o;
   const basic = netlist.cells.map((c) => planned(u, basicCellFor(c.fn)));
-  const outcome = sizeUniform(netlist, basic, u);
+  const basicSituations = uniformSituations(netlist, basic, u);
+  const outcome = sizeUniform(netlist, basic, u, basicSituations);
   if (outcome.ok || o.variants !== "auto") return { outcome, defs: basic, triedVariant: false };
   const hifan = variantsFor("nand").find((d) => d.variant === "high-fanout");
   const variant = hifan ? planned(u, hifan) : undefined;
-  const loading = buildSituations(netlist, basic, { group: false, ...(o.fanoutOverride !== undefined ? { fanoutOverride: o.fanoutOverride } : {}) });
-  const fanoutOf = (cell: number): number => loading.situations[loading.byCell[cell]!]!.andLoads;
   const nandCells = netlist.cells.filter((c) => c.fn === "nand").map((c) => c.index);
   if (!variant || nandCells.length === 0) return { outcome, defs: basic, triedVariant: false };
   // The variant only adds drive: if the basic cells fail even without the saturation
   // constraint, no variant can help.
   const satIndex = CONSTRAINTS.findIndex((c) => c.id === "saturation");
   if (!u.disabled?.has(satIndex)) {
-    const withoutSat = sizeUniform(netlist, basic, { ...u, disabled: new Set([...(u.disabled ?? []), satIndex]) });
+    // The same cells and loads: the same situations.
+    const withoutSat = sizeUniform(netlist, basic, { ...u, disabled: new Set([...(u.disabled ?? []), satIndex]) }, basicSituations);
     if (!withoutSat.ok) return { outcome, defs: basic, triedVariant: false };
   }
+  // Each cell's own loads (one situation a cell), needed only from here on.
+  const loading = buildSituations(netlist, basic, { group: false, ...(o.fanoutOverride !== undefined ? { fanoutOverride: o.fanoutOverride } : {}) });
+  const fanoutOf = (cell: number): number => loading.situations[loading.byCell[cell]!]!.andLoads;
   const levels = [...new Set(nandCells.map(fanoutOf))].sort((a, b) => a - b);
   // Threshold t: cells with fan-out above levels[t] get the variant; t = −1 moves them all.
   const defsAt = (t: number): CellDefinition[] => {
