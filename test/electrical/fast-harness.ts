@@ -41,6 +41,10 @@ export class Ngspice {
   async measures(netlist: string): Promise<Record<string, number>> {
     this.sim!.setNetList(netlist);
     await this.sim!.runSim();
+    // The engine runs in this thread and its promises settle as microtasks: without a turn of
+    // the event loop, a file of simulations would hold timers and messages back for its whole
+    // run (a test worker that does not answer its runner for a minute is dropped).
+    await new Promise((resolve) => setImmediate(resolve));
     const out: Record<string, number> = {};
     for (const m of this.sim!.getInfo().matchAll(/^\s*(\w+)\s*=\s*([-+0-9.eE]+)/gm)) out[m[1]!.toLowerCase()] = Number(m[2]);
     return out;
