@@ -12,6 +12,7 @@ import type { CellNetlist } from "../map/types.js";
 import { formatFarads, formatOhms, seriesMantissas, valuesInRange } from "./eseries.js";
 import {
   buildCorners,
+  CI,
   CONSTRAINTS,
   evaluateSituation,
   mergeAnalyses,
@@ -717,7 +718,6 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
     const st = stressesBySit[si]!;
     const made: (typeof partsBySit)[number] = { kinds: [], names: [], parts: [] };
     for (const comp of topo.components) {
-      const des = "";
       const stress = st.get(comp.name);
       let part: Component;
       if (comp.kind === "R") {
@@ -726,7 +726,7 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
         const rating = chooseResistorRating(watts);
         const text = formatOhms(ohms);
         const c: Component = {
-          designator: des,
+          designator: "",
           kind: "R",
           value: ohms,
           valueText: text,
@@ -753,7 +753,7 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
         const vMax = Math.max(stress?.voltageVolts ?? 0, o.supplyVolts * (1 + o.supplyTolerance));
         const rated = capacitorVoltageRating(vMax);
         const c: Component = {
-          designator: des,
+          designator: "",
           kind: "C",
           value: farads,
           valueText: `${formatFarads(farads)}F`,
@@ -771,7 +771,7 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
         const dFwdMax = sch ? sch.iForwardMaxAmps : o.devices.diodeForwardMaxAmps;
         const dRevMax = sch ? sch.vReverseMaxVolts : o.devices.diodeReverseMaxVolts;
         const c: Component = {
-          designator: des,
+          designator: "",
           kind: comp.kind,
           value: 0,
           valueText: card.partNumber ?? card.name,
@@ -820,7 +820,7 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
       c.instance = cell.index;
       components.push(c);
     }
-    instances.push({ cell: cell.index, cellType: typeOfCell[cell.index]!, designators, analysis: analyses[sized.byCell[cell.index]!]! });
+    instances.push({ cell: cell.index, cellType: typeOfCell[cell.index]!, designators, analysis: analyses[si]! });
   }
 
   // Totals.
@@ -986,7 +986,7 @@ function attemptAll(netlist: CellNetlist, u: UniformEnv): Attempt {
   if (!variant || nandCells.length === 0) return { outcome, defs: basic, triedVariant: false };
   // The variant only adds drive: if the basic cells fail even without the saturation
   // constraint, no variant can help.
-  const satIndex = CONSTRAINTS.findIndex((c) => c.id === "saturation");
+  const satIndex = CI.saturation;
   if (!u.disabled?.has(satIndex)) {
     // The same cells and loads: the same situations.
     const withoutSat = sizeUniform(netlist, basic, { ...u, disabled: new Set([...(u.disabled ?? []), satIndex]) }, basicSituations);
@@ -1119,8 +1119,7 @@ function sizedPowerWatts(sized: Sized): number {
  *  between neighbouring screen values; the full sizing of such a plan is skipped. Feasible
  *  relaxed problems end the search early, so a plan that can meet the budget costs little. */
 function screenPlan(netlist: CellNetlist, u: UniformEnv, plan: VariantPlan, caps: readonly number[]): DelayReach | "fits" {
-  const delays = new Set(["delay-fall", "delay-rise"]);
-  const others = CONSTRAINTS.map((c, i) => (delays.has(c.id) ? -1 : i)).filter((i) => i >= 0);
+  const others = CONSTRAINTS.map((_, i) => i).filter((i) => i !== CI["delay-fall"] && i !== CI["delay-rise"]);
   const grid = u.grid.filter((_, k) => k % SCREEN_STEP === 0 || k === u.grid.length - 1);
   const relaxed: UniformEnv = { ...u, grid, disabled: new Set([...(u.disabled ?? []), ...others]) };
   const capList = plan.capFarads === undefined || caps.length === 0 ? [undefined] : caps.filter((_, k) => k % SCREEN_STEP === 0 || k === caps.length - 1);
@@ -1137,8 +1136,8 @@ function screenPlan(netlist: CellNetlist, u: UniformEnv, plan: VariantPlan, caps
       if (out.ok) return "fits";
       const cl = out.failure.closest;
       if (!cl) continue;
-      const fall = cl.margins[CI_DELAY_FALL]!;
-      const rise = cl.margins[CI_DELAY_RISE]!;
+      const fall = cl.margins[CI["delay-fall"]]!;
+      const rise = cl.margins[CI["delay-rise"]]!;
       const id = rise <= fall ? "delay-rise" : "delay-fall";
       const m = Math.min(fall, rise);
       if (!best || m > best.margin) best = { id, margin: m, seconds: u.gateDelayMaxSeconds! * (1 - m), def: out.failure.def };
@@ -1146,9 +1145,6 @@ function screenPlan(netlist: CellNetlist, u: UniformEnv, plan: VariantPlan, caps
   }
   return best ?? { id: "delay-rise", margin: -Infinity, seconds: Infinity, def: planned({ ...u, plan }, basicCellFor(netlist.cells[0]!.fn)) };
 }
-
-const CI_DELAY_FALL = CONSTRAINTS.findIndex((c) => c.id === "delay-fall");
-const CI_DELAY_RISE = CONSTRAINTS.findIndex((c) => c.id === "delay-rise");
 
 /** Under a speed budget the basic cells miss: the cheapest plan of fast variants that meets it at
  *  every corner (parts first, then worst-case power), with the smallest allowed speed-up
@@ -1168,7 +1164,7 @@ function attemptFast(netlist: CellNetlist, u0: UniformEnv): Attempt {
   const coarse: UniformEnv = { ...u, grid: u.grid.filter((_, k) => k % 2 === 0) };
   // The fast variants change only the switching: if the basic cells fail even without the delay
   // constraints, none of them can help.
-  const delays = ["delay-fall", "delay-rise"].map((id) => CONSTRAINTS.findIndex((c) => c.id === id));
+  const delays = [CI["delay-fall"], CI["delay-rise"]];
   if (!attemptAll(netlist, { ...coarse, disabled: new Set([...(u.disabled ?? []), ...delays]) }).outcome.ok) return first;
   const caps = valuesInRange(o.capacitorSeries, o.capacitorMinFarads, o.capacitorMaxFarads);
   const plans = fastPlans(netlist, o);
@@ -1271,21 +1267,26 @@ function fmtFarads(f: number): string {
 function delayOnlyDiagnostic(netlist: CellNetlist, u: UniformEnv, first: Attempt): Diagnostic {
   const o = u.o;
   const r = first.delayOnly!;
-  const loading = buildSituations(netlist, first.defs, { group: true, ...(o.fanoutOverride !== undefined ? { fanoutOverride: o.fanoutOverride } : {}) });
-  const maxFan = loading.situations.reduce((m, s) => Math.max(m, s.andLoads + s.orLoads), 0);
   const limit = first.gateDelayMaxSeconds ?? u.gateDelayMaxSeconds!;
   const msg =
-    `${r.def.title}, largest fan-out ${maxFan}: no ${o.series} values meet every constraint at every corner; ${labelOf(r.id)} fails first: ` +
+    `${r.def.title}, largest fan-out ${largestFanout(netlist, first.defs, o)}: no ${o.series} values meet every constraint at every corner; ${labelOf(r.id)} fails first: ` +
     `the best design reaches about ${fmtQuantity(r.seconds, "s")} against at most ${fmtQuantity(limit, "s")} required even with every other constraint left out ` +
-    `(screened on every ${ordinal(SCREEN_STEP)} standard value): no variant comes within a factor of ${fmt(1 + SCREEN_SLACK)} of the budget`;
-  const hint =
-    `what would relax it: ${RELAX[r.id] ?? "a slower budget"}; the fast variants were tried (speed-up capacitor up to ${fmtFarads(o.capacitorMaxFarads)} and Schottky clamp, ` +
-    `their estimates held ${fmt(FAST_DELAY_GUARD * 100)} % under the budget for the estimate's accuracy), and the figure is for the one that came closest`;
-  return diag("GW5001", msg, undefined, { hint });
+    `(screened on one standard value in ${SCREEN_STEP}): no variant comes within a factor of ${fmt(1 + SCREEN_SLACK)} of the budget`;
+  return diag("GW5001", msg, undefined, { hint: `what would relax it: ${RELAX[r.id]}; ${fastTriedText(o)}` });
 }
 
-function ordinal(n: number): string {
-  return n === 2 ? "second" : n === 3 ? "third" : `${n}th`;
+/** The largest fan-out of the mapped design under `defs` (for GW5001). */
+function largestFanout(netlist: CellNetlist, defs: readonly CellDefinition[], o: ResolvedOptions): number {
+  const loading = buildSituations(netlist, defs, { group: true, ...(o.fanoutOverride !== undefined ? { fanoutOverride: o.fanoutOverride } : {}) });
+  return loading.situations.reduce((m, s) => Math.max(m, s.andLoads + s.orLoads), 0);
+}
+
+/** What GW5001's hint says of the fast variants when they were tried against a delay. */
+function fastTriedText(o: ResolvedOptions): string {
+  return (
+    `the fast variants were tried (speed-up capacitor up to ${fmtFarads(o.capacitorMaxFarads)} and Schottky clamp, their estimates held ${fmt(FAST_DELAY_GUARD * 100)} % under ` +
+    `the budget for the estimate's accuracy), and the figure is for the one that came closest`
+  );
 }
 
 /** Which constraint blocks an infeasible request: the ones whose removal alone lets the search
@@ -1314,8 +1315,8 @@ function explainBlockers(netlist: CellNetlist, u: UniformEnv, first: Attempt): D
     blockers.push({ id: c.id, i, reached: worstValue(relaxed.outcome.sized, i) });
   }
   // Both delays failing together (a budget far below any design): relax them as one.
-  const iFall = CONSTRAINTS.findIndex((c) => c.id === "delay-fall");
-  const iRise = CONSTRAINTS.findIndex((c) => c.id === "delay-rise");
+  const iFall = CI["delay-fall"];
+  const iRise = CI["delay-rise"];
   if (blockers.length === 0 && u.gateDelayMaxSeconds !== undefined) {
     const relaxed = attemptAll(netlist, { ...coarse, disabled: new Set([...(u.disabled ?? []), iFall, iRise]) });
     if (relaxed.outcome.ok) {
@@ -1324,9 +1325,7 @@ function explainBlockers(netlist: CellNetlist, u: UniformEnv, first: Attempt): D
       blockers.push(rise >= fall ? { id: "delay-rise", i: iRise, reached: rise } : { id: "delay-fall", i: iFall, reached: fall });
     }
   }
-  const loading = buildSituations(netlist, first.defs, { group: true, ...(o.fanoutOverride !== undefined ? { fanoutOverride: o.fanoutOverride } : {}) });
-  const maxFan = loading.situations.reduce((m, s) => Math.max(m, s.andLoads + s.orLoads), 0);
-  const where = `, largest fan-out ${maxFan}`;
+  const where = `, largest fan-out ${largestFanout(netlist, first.defs, o)}`;
   if (blockers.length > 0) {
     const b0 = blockers[0]!;
     const spec = CONSTRAINTS[b0.i]!;
@@ -1353,7 +1352,7 @@ function explainBlockers(netlist: CellNetlist, u: UniformEnv, first: Attempt): D
     if (alt.length) msg += ` (relaxing ${alt.length === 1 ? "" : "any one of "}${alt.join(", ")} instead would also let it fit)`;
     let hint = `what would relax it: ${RELAX[b0.id] ?? "a looser requirement"}`;
     if (first.triedVariant && b0.id === "saturation") hint += "; the high-fan-out variant was tried and does not fit either";
-    if (first.triedFast && (b0.id === "delay-fall" || b0.id === "delay-rise")) hint += `; the fast variants were tried (speed-up capacitor up to ${fmtFarads(o.capacitorMaxFarads)} and Schottky clamp, their estimates held ${fmt(FAST_DELAY_GUARD * 100)} % under the budget for the estimate's accuracy), and the figure is for the one that came closest`;
+    if (first.triedFast && (b0.id === "delay-fall" || b0.id === "delay-rise")) hint += `; ${fastTriedText(o)}`;
     return diag("GW5001", msg, undefined, { hint });
   }
   return failureDiagnostic(f, o, first.triedVariant);

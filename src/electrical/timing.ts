@@ -251,6 +251,10 @@ export function cellTiming(t: TimingInputs): CellTiming {
   const cMiller = jc.mean(vBE - vOH, vBE - v50) + (js ? js.mean(vBE - vOH, vBE - v50) : 0);
   const qMiller = cMiller * (vOH - v50);
   let followerLag: { v0: number; rX: number; tau: number } | undefined;
+  // The reverse current a rising diode-AND input's pull-up sends back through the input diode
+  // (absent: a stiff step).
+  const rSrc = t.drive.andSourceOhms;
+  const iRecover = rSrc !== undefined && rSrc > 0 ? Math.max(1e-9, vcc - vPOn) / rSrc : undefined;
   let capFed: { cSu: number; cHold: number; cInOwn: number; vIn50: number; vCond: number; vLow: number; rs: number } | undefined;
   // R_C's current at the 50 % point.
   const iRc50 = Math.max(0, vcc - v50) / rc;
@@ -262,7 +266,7 @@ export function cellTiming(t: TimingInputs): CellTiming {
     const cOthers = (t.fanin - 1) * jd.mean(-(vOH - vPLow), -(vOH - vPOn));
     // The stepped input diode hands its stored and depletion charge to the node as it recovers,
     // less what of the stored charge recombines meanwhile (inputStoredShare).
-    qKick = ttd * op.inputLowAmps * inputStoredShare(ttd, op.inputLowAmps, vcc - vPOn, t.drive) + jd.charge(d.vDiodeOnVolts, vPOn - vOH);
+    qKick = ttd * op.inputLowAmps * inputStoredShare(ttd, op.inputLowAmps, iRecover, t.drive.edgeSeconds) + jd.charge(d.vDiodeOnVolts, vPOn - vOH);
     if (def.timingHints?.follower) {
       // The follower's base (the input node) is raised by the pull-up alone, charging the other
       // input diodes and the follower's junctions; once it conducts, its emitter current drives
@@ -327,13 +331,15 @@ export function cellTiming(t: TimingInputs): CellTiming {
       qKick = cSu * Math.max(0, vCond - vBE - t.drive.vLowMaxVolts);
     }
     const rs = t.drive.orSourceOhms;
+    if (vCond > vIn50 && Number.isFinite(rs) && vcc > vCond) tNode = rs * cIn * Math.log((vcc - vIn50) / (vcc - vCond));
     if (cSu > 0 && Number.isFinite(rs) && rs > 0 && vcc > vCond) {
       // The capacitor ties the rising input to the base, which the other inputs' capacitors and
       // the emitter junction hold to ground: a divider, so the base rises with the input long
-      // before the diode path conducts, and the transistor turns on through the capacitor.
+      // before the diode path conducts, and the transistor turns on through the capacitor
+      // (capacitorFedFall, which takes the place of the sequence above where it applies).
       const cHold = (t.fanin - 1) * cSu + je.mean(0, vBE);
       capFed = { cSu, cHold, cInOwn: cIn - cSu, vIn50, vCond, vLow: t.drive.vLowMaxVolts, rs };
-    } else if (vCond > vIn50 && Number.isFinite(rs) && vcc > vCond) tNode = rs * cIn * Math.log((vcc - vIn50) / (vcc - vCond));
+    }
   }
   // The kick (the stepped input diode's stored and depletion charge) arrives as the diode
   // recovers: its storage time is τ_T·ln(1 + I_F/I_R) (junction-diode reverse recovery, Millman
@@ -342,11 +348,7 @@ export function cellTiming(t: TimingInputs): CellTiming {
   // edge; a DTL driver, whose R_C is of the order of the load's pull-up, takes about τ_T·ln 2.
   // What the kick brings beyond the turn-on charge (also a negative qBase: charge a speed-up
   // capacitor delivered early) is base charge the output's fall starts with.
-  let tKick = 0;
-  const rSrc = t.drive.andSourceOhms;
-  if (andInput && qKick > 0 && rSrc !== undefined && rSrc > 0 && ttd > 0) {
-    tKick = diodeStorageSeconds(ttd, op.inputLowAmps, Math.max(1e-9, vcc - vPOn) / rSrc);
-  }
+  const tKick = andInput && qKick > 0 && iRecover !== undefined && ttd > 0 ? diodeStorageSeconds(ttd, op.inputLowAmps, iRecover) : 0;
   const tBase = Math.max(tKick, Math.max(0, qBase - qKick) / iB1);
   const qHead = Math.max(0, qKick - qBase);
   // Speed-up capacitors of diode-AND loads: their charge is sunk as the output falls.
@@ -373,15 +375,7 @@ export function cellTiming(t: TimingInputs): CellTiming {
   let tPHL = tNode + tBase + tLoad;
   if (capFed) {
     const fed = capacitorFedFall(capFed, { vcc, vBE, tf, iRc50, rbOhms: values.rbOhms!, nF: npn.NF ?? 1, tempC: d.tempC, qLoad: qFall, cFall, cMiller, qMiller, iMaxOf: (ib) => Math.max(betaOn * ib - iCs / 2, 1e-30) });
-    if (fed !== undefined) {
-      tNode = fed.tTurnOn;
-      tLoad = fed.tFall;
-      tPHL = tNode + tLoad;
-    } else {
-      const cIn = capFed.cInOwn + capFed.cSu;
-      tNode = capFed.rs * cIn * Math.log((vcc - capFed.vIn50) / (vcc - capFed.vCond));
-      tPHL = tNode + tBase + tLoad;
-    }
+    if (fed !== undefined) tPHL = fed.tTurnOn + fed.tFall;
   }
 
   // --- Output rising --------------------------------------------------------------------
@@ -422,14 +416,10 @@ export function cellTiming(t: TimingInputs): CellTiming {
     // upper part of the swing.
     const cjcOver = (a: number, b: number): number => jc.mean(vBE - a, vBE - b) + (js ? js.mean(vBE - a, vBE - b) : 0);
     // R_B's current takes Miller charge too meanwhile (rounds settle the knee and the time).
+    const lowerSeconds = (vTo: number): number => millerLimitedRiseSeconds(vOL, vTo, vcc, rc, cRise, iB2, 0);
     let vKnee = Math.min(v50, vOL + qSpare / cjcRise);
-    let tLower = 0;
-    for (let k = 0; k < 3; k++) {
-      tLower = millerLimitedRiseSeconds(vOL, vKnee, vcc, rc, cRise, iB2, 0);
-      if (vKnee >= v50) break;
-      vKnee = Math.min(v50, vOL + (qSpare + iB2 * tLower) / cjcOver(vOL, vKnee));
-    }
-    tLower = millerLimitedRiseSeconds(vOL, vKnee, vcc, rc, cRise, iB2, 0);
+    for (let k = 0; k < 3 && vKnee < v50; k++) vKnee = Math.min(v50, vOL + (qSpare + iB2 * lowerSeconds(vKnee)) / cjcOver(vOL, vKnee));
+    const tLower = lowerSeconds(vKnee);
     let tUpper = 0;
     if (vKnee < v50) {
       const cjcUp = cjcOver(vKnee, v50);
@@ -501,19 +491,15 @@ function capacitorFedFall(
 }
 
 /** Share of a stepped input diode's stored charge τ_T·I_F that reaches the input node. Behind a
- *  driver's pull-up R (DriveInput.andSourceOhms) the reverse current I_R = ΔV/R clears it in
+ *  driver's pull-up R (InputDrive.andSourceOhms) the reverse current I_R = ΔV/R clears it in
  *  t_s = τ_T·ln(1 + I_F/I_R) while it recombines at q/τ_T, so I_R·t_s of it arrives: the share
  *  (I_R/I_F)·ln(1 + I_F/I_R) (charge control of reverse recovery, Millman & Halkias ch. 3). A
  *  stiff step with a rise time t_e holds the diode forward for about that long, leaving
  *  e^(−t_e/τ_T) of it; an ideal step, all of it. */
-export function inputStoredShare(ttSeconds: number, iFAmps: number, vReverseVolts: number, drive: InputDrive): number {
+export function inputStoredShare(ttSeconds: number, iFAmps: number, iRAmps: number | undefined, edgeSeconds: number | undefined): number {
   if (!(ttSeconds > 0) || !(iFAmps > 0)) return 1;
-  const r = drive.andSourceOhms;
-  if (r !== undefined && r > 0) {
-    const iR = Math.max(1e-9, vReverseVolts) / r;
-    return (iR / iFAmps) * Math.log1p(iFAmps / iR);
-  }
-  return drive.edgeSeconds !== undefined && drive.edgeSeconds > 0 ? Math.exp(-drive.edgeSeconds / ttSeconds) : 1;
+  if (iRAmps !== undefined && iRAmps > 0) return (iRAmps / iFAmps) * Math.log1p(iFAmps / iRAmps);
+  return edgeSeconds !== undefined && edgeSeconds > 0 ? Math.exp(-edgeSeconds / ttSeconds) : 1;
 }
 
 /** A junction diode's storage time when its forward current I_F is reversed to I_R: the stored

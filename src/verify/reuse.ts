@@ -32,28 +32,6 @@ export function inputHash(parts: { toolVersion: string; sourceText: string; opti
   return `sha256:${h.digest("hex")}`;
 }
 
-/** The generated JSON text with the hash added after its "generator" entry. */
-export function withInputHash(jsonText: string, hash: string): string {
-  let data: Record<string, unknown>;
-  try {
-    data = JSON.parse(jsonText) as Record<string, unknown>;
-  } catch {
-    return jsonText;
-  }
-  const out: Record<string, unknown> = {};
-  let placed = false;
-  for (const [k, v] of Object.entries(data)) {
-    if (k === INPUT_HASH_KEY) continue;
-    out[k] = v;
-    if (k === "generator") {
-      out[INPUT_HASH_KEY] = hash;
-      placed = true;
-    }
-  }
-  if (!placed) out[INPUT_HASH_KEY] = hash;
-  return JSON.stringify(out, null, 2) + "\n";
-}
-
 /** The hash stored in a generated JSON text, if any. */
 export function storedInputHash(jsonText: string): string | undefined {
   try {
@@ -62,13 +40,6 @@ export function storedInputHash(jsonText: string): string | undefined {
   } catch {
     return undefined;
   }
-}
-
-/** The files of a run with the hash put into its JSON file (named `jsonName`), by reading the
- *  JSON text back. The CLI emits the files with `EmitContext.inputHash` instead, which writes the
- *  same text once. */
-export function filesWithInputHash<T extends { name: string; content: string }>(files: readonly T[], jsonName: string, hash: string): T[] {
-  return files.map((f) => (f.name === jsonName ? { ...f, content: withInputHash(f.content, hash) } : f));
 }
 
 /** The hash of a synthesis: every option its files depend on (the command line only goes into

@@ -13,7 +13,7 @@ import { emitDesign, fileNamesOf } from "../../src/emit/index.js";
 import { designJson, writeDesignJson } from "../../src/emit/report.js";
 import { producedFile, textOf } from "../../src/emit/output.js";
 import { GENERATED_MARKER, NODE_WRITE_FS, writeOutputs, type WriteFs } from "../../src/cli/write.js";
-import { filesWithInputHash } from "../../src/verify/reuse.js";
+import { filesWithInputHash } from "../support/input-hash.js";
 import { randomNetwork } from "../bench/designs.js";
 
 function tmp(): string {

@@ -15,7 +15,8 @@ import { measureDelays, measureLevels, measureSupply } from "../../src/verify/me
 import { chooseVectors, defaultMaxSteps, prefixStimulus, vectorGiving } from "../../src/verify/vectors.js";
 import { bomCsvWithBypass, bomMarkdownWithBypass, recommendDecoupling, switchedCells, CELLS_PER_GROUP } from "../../src/verify/decoupling.js";
 import { netThresholds, netThresholdsAt } from "../../src/verify/levels.js";
-import { filesWithInputHash, inputHash, storedInputHash, synthesisHash, withInputHash } from "../../src/verify/reuse.js";
+import { inputHash, storedInputHash, synthesisHash } from "../../src/verify/reuse.js";
+import { filesWithInputHash, withInputHash } from "../support/input-hash.js";
 import { emitDesign } from "../../src/emit/index.js";
 import { decimate } from "../../src/verify/plots.js";
 import { seededRandom, StepSimulator } from "../../src/logic/evaluate.js";
