@@ -14,15 +14,18 @@
 // charge on the rise and the one conducting transistor must discharge on the fall.
 // Fast variants (src/cells/fast-kit), capacitor at its low end (slowest):
 // - speed-up capacitor C_SU: on the output's rise the driving node falls by ΔV and C_SU pulls
-//   C_SU·ΔV out of the base at once; it comes off the stored charge first (as a smaller
-//   effective I_B1 in the storage-time formula), then off the active charge τ_F·I_C, and what is
-//   left holds the base below cut-in while the collector swings, taking the Miller charge in
-//   place of R_B (the rise becomes R_C-limited); beyond that, the spare charge has pulled the
-//   base and, through the saturated collector junction, the output below their low levels, and
-//   the output's pull-up returns it before the output rises. On the output's fall the charge
-//   that recharges C_SU is delivered into the base (the input node need not charge the
-//   level-shift diodes first); a NOR's capacitors form a divider with the base's capacitance, so
-//   its transistor turns on through the rising input's capacitor (capacitorFedFall).
+//   C_SU·ΔV out of the base at once, and the collector with it (the saturated collector
+//   junction's stored charge ties them); the output's pull-up then refills the base side through
+//   that junction, draining the stored charge, until the base side is refilled (the rest drains
+//   through R_B as usual) or the stored charge is gone (the output rises, the base still held low
+//   by what is not refilled, which takes the Miller charge: the rise R_C-limited up to a knee).
+//   Through a Miller-limited rise the base sinks with the collector current, and the capacitance
+//   held on it hands that charge to R_B. Where the capacitor takes about the stored charge the
+//   estimate is steep; the engine's holds a margin of the charge back (CAPACITOR_CHARGE_MARGIN).
+//   On the output's fall the charge that recharges C_SU is delivered into the base (the input
+//   node need not charge the level-shift diodes first); a NOR's capacitors form a divider with
+//   the base's capacitance, so its transistor turns on through the rising input's capacitor
+//   (capacitorFedFall).
 // - Schottky clamp: no stored charge (t_s = 0); its junction capacitance adds to the collector
 //   junction's Miller charge on both edges and to the capacitance R_C charges.
 // - a diode-AND load with a speed-up capacitor hands its C_SU·ΔV to its driver when the driver
@@ -85,6 +88,9 @@ export function meanJunctionCapacitanceFarads(cj0: number, vj: number, m: number
 
 const BOLTZMANN_OVER_Q = 1.380649e-23 / 1.602176634e-19;
 
+/** The collector current at which the typical V_BE is taken (typicalDrops). */
+const TYPICAL_TRANSISTOR_AMPS = 1e-3;
+
 /** Junction drops of the SPICE models at typical switching currents (diode 0.5 mA, transistor
  *  1 mA), at `tempC` with −2 mV/°C from 25 °C. Timing uses these: the book's 0.7/0.8 V are
  *  deliberately pessimistic for DC levels and would understate the base drive. */
@@ -101,7 +107,7 @@ export function typicalDrops(
   const qN = npn.NF ?? 1;
   const shift = tcVoltsPerC * (tempC - 25);
   const vD = dN * vt * Math.log(0.5e-3 / dIs) + shift;
-  const vBE = qN * vt * Math.log(1e-3 / qIs) + shift;
+  const vBE = qN * vt * Math.log(TYPICAL_TRANSISTOR_AMPS / qIs) + shift;
   // In saturation the base-emitter drop sits a little higher (forced gain well below BF).
   return { vDiodeOnVolts: vD, vBEActiveVolts: vBE, vBESatVolts: vBE + 0.04 };
 }
@@ -120,7 +126,14 @@ export interface TimingInputs {
   inputWiringFarads?: number;
   /** The clamp diode's model parameters (fast cells; default the generic Schottky). */
   schottky?: Record<string, number>;
+  /** Share of a speed-up capacitor's charge the rising edge is also worked out without, the
+   *  slower result taken (default CAPACITOR_CHARGE_MARGIN, the engine's; 0: the plain estimate). */
+  capacitorChargeMargin?: number;
 }
+
+/** The sizing's margin on a speed-up capacitor's charge near the point where it takes about the
+ *  stored charge (see cellTiming). */
+export const CAPACITOR_CHARGE_MARGIN = 0.2;
 
 /** Time for the output to rise from vFrom to vTo when R_C pulls it toward vTarget through
  *  capacitance cTotal, while the collector junction's Miller current must be carried off by the
@@ -390,51 +403,116 @@ export function cellTiming(t: TimingInputs): CellTiming {
   const tauS = storageTimeConstantSeconds(npn);
   // The speed-up capacitor's charge, pulled out of the base as the driving node falls.
   const qSu = cSu * suSwing;
-  const iB1Eff = Math.max(iCs / betaOff, iB1 - (tauS > 0 ? (qOff + qSu) / tauS : 0));
-  // A clamped transistor holds no stored charge.
-  const ts = su?.clamp ? 0 : storageTimeSeconds(tauS, iB1Eff, iB2, iCs, betaOff);
-  // Charge the capacitor pulls beyond the stored charge: it removes the active charge τ_F·I_C,
-  // then holds the base below cut-in against the Miller charge.
-  const qStored = su?.clamp ? 0 : Math.max(0, tauS * (iB1 - iCs / betaOff));
+  // Capacitance held on the base (the speed-up capacitors, to nodes that stay put).
+  const cBaseHeld = cSu > 0 ? (andInput ? 1 : t.fanin) * cSu : 0;
   const qActive = tf * iCs;
-  let qSpare = Math.max(0, qOff + qSu - qStored);
-  const decayShare = qSpare > 0 && qActive > 0 ? Math.max(0, 1 - qSpare / qActive) : 1;
-  qSpare = Math.max(0, qSpare - qActive);
-  // Collector current falling to half (charge control, τ = β·τ_F).
+  // The collector current's decay (charge control, τ = β·τ_F).
   const tauOff = betaOff * tf;
-  const tDecay = decayShare * tauOff * Math.log((iCs + betaOff * iB2) / (0.5 * iCs + betaOff * iB2));
   // Output rising: Miller-limited first, then R_C charging the load and the collector junction
   // (and the clamp diode's junction).
   const cjcRise = jc.mean(vBE - vOL, vBE - v50) + (js ? js.mean(vBE - vOL, vBE - v50) : 0);
   const cRise = load.capacitanceFarads + cTiedRise + cjcRise;
-  let tRise = millerLimitedRiseSeconds(vOL, v50, vcc, rc, cRise, iB2, cjcRise);
-  if (qSpare > 0 && cjcRise > 0 && v50 > vOL) {
-    // The capacitor's spare charge takes the Miller charge in R_B's place as far as it goes: the
-    // output rises R_C-limited up to the level where that charge is used up (the knee: ngspice
-    // shows the base climbing back from below cut-in meanwhile), then Miller-limited on R_B's
-    // current as before, with the collector junction's (and clamp's) capacitance over that
-    // upper part of the swing.
-    const cjcOver = (a: number, b: number): number => jc.mean(vBE - a, vBE - b) + (js ? js.mean(vBE - a, vBE - b) : 0);
-    // R_B's current takes Miller charge too meanwhile (rounds settle the knee and the time).
-    const lowerSeconds = (vTo: number): number => millerLimitedRiseSeconds(vOL, vTo, vcc, rc, cRise, iB2, 0);
-    let vKnee = Math.min(v50, vOL + qSpare / cjcRise);
-    for (let k = 0; k < 3 && vKnee < v50; k++) vKnee = Math.min(v50, vOL + (qSpare + iB2 * lowerSeconds(vKnee)) / cjcOver(vOL, vKnee));
-    const tLower = lowerSeconds(vKnee);
-    let tUpper = 0;
-    if (vKnee < v50) {
-      const cjcUp = cjcOver(vKnee, v50);
-      tUpper = millerLimitedRiseSeconds(vKnee, v50, vcc, rc, load.capacitanceFarads + cTiedRise + cjcUp, iB2, cjcUp);
+  // As the output rises the collector current falls from I_C to R_C's current at the 50 % point,
+  // and V_BE with it (by V_T·ln of their ratio): the capacitance held on the base (the speed-up
+  // capacitors, to nodes that stay put) gives up that droop's charge to R_B, which then carries
+  // off that much less Miller charge (ngspice: the base sinking some 50 mV through the rise, the
+  // rise half as fast again as on R_B's current alone with 2 × 68 pF on the base). The emitter
+  // junction's share of it, a few per cent of the Miller charge, is left out.
+  const vDroop = cBaseHeld > 0 && iRc50 > 0 && iCs > iRc50 ? (npn.NF ?? 1) * BOLTZMANN_OVER_Q * (d.tempC + 273.15) * Math.log(iCs / iRc50) : 0;
+  const cDroop = v50 > vOL ? (cBaseHeld * vDroop) / (v50 - vOL) : 0;
+  // The rising edge with the capacitor taking the charge qSuX.
+  const rising = (qSuX: number): { ts: number; tDecay: number; tRise: number; total: number } => {
+    let ts: number;
+    let qSpare: number;
+    if (su?.clamp) {
+      // A clamped transistor holds no stored charge: the capacitor's charge is all spare.
+      ts = 0;
+      qSpare = qOff + qSuX;
+    } else if (qSuX > 0) {
+      // The capacitor pulls the base down at once, and the collector with it: the saturated
+      // collector junction's stored charge ties them together (ngspice shows base and output
+      // dropping together, the output below ground). The output's pull-up then refills the base
+      // side through that junction, against its forward direction, so its current (R_C's and the
+      // diode-AND loads' input currents) drains the stored charge in R_B's place (with
+      // recombination, τ_s, meanwhile) until either the base side is refilled (the charge the
+      // capacitor and the level-shift diodes took) or the stored charge runs out, whichever
+      // comes first (charge control: dQ/dt = −I − Q/τ_s).
+      const qRefill = qOff + qSuX;
+      // Base and output rise together meanwhile, so the pull-up's current splits between the base
+      // side (through the junction) and the output's own capacitance, in proportion. The output
+      // sits below its low level meanwhile, by half the dip on average (the dip: the capacitor's
+      // charge over base side and output together), and the pull-up sends that much more.
+      const cSide = cBaseHeld + je.mean(0, vBE);
+      const cOut = load.capacitanceFarads + cTiedRise;
+      const vHoldMean = vOL - qRefill / (cSide + cOut) / 2;
+      const loadHead = vcc - d.vDiodeOnVolts - vOL;
+      const iHoldLow = Math.max(0, vcc - vHoldMean) / rc + (loadHead > 0 ? (op.iLoadAmps * (vcc - d.vDiodeOnVolts - vHoldMean)) / loadHead : op.iLoadAmps);
+      const iJunction = Math.max(1e-9, iHoldLow * (cSide / (cSide + cOut)));
+      const tRefill = qRefill / iJunction;
+      const tDrained = storageTimeSeconds(tauS, iB1, iJunction, iCs, betaOff);
+      if (tRefill < tDrained) {
+        // Refilled first: the charge left then drains through R_B as usual.
+        const qLeft = tauS * (iB1 + iJunction) * Math.exp(-tRefill / tauS) - tauS * iJunction;
+        ts = tRefill + storageTimeSeconds(tauS, qLeft / tauS, iB2, iCs, betaOff);
+        qSpare = 0;
+      } else {
+        // Drained first: the collector junction lets go and the output rises, the base still
+        // below its level by what the pull-up has not returned yet.
+        // The transistor conducts again well before its base is back at V_BE: within
+        // V_T·ln(I/I_C) of it, it takes half of R_C's current at the 50 % point and holds the
+        // rise back (ngspice: the base stopping some 30 mV short of V_BE, a slow rise). The part
+        // of the shortfall inside that band is not spare.
+        ts = tDrained;
+        const vt = (npn.NF ?? 1) * BOLTZMANN_OVER_Q * (d.tempC + 273.15);
+        const band = iRc50 > 0 ? Math.max(0, vt * Math.log(TYPICAL_TRANSISTOR_AMPS / (iRc50 / 2))) : 0;
+        qSpare = Math.max(0, qRefill - iJunction * tDrained - cSide * band);
+      }
+    } else {
+      // The level-shift diodes' recovery charge comes off the stored charge at once.
+      const iB1Eff = Math.max(iCs / betaOff, iB1 - (tauS > 0 ? qOff / tauS : 0));
+      ts = storageTimeSeconds(tauS, iB1Eff, iB2, iCs, betaOff);
+      qSpare = 0;
     }
-    tRise = tLower + tUpper;
+    // Charge beyond the stored charge removes the active charge τ_F·I_C first, then holds the base
+    // below cut-in against the Miller charge.
+    const decayShare = qSpare > 0 && qActive > 0 ? Math.max(0, 1 - qSpare / qActive) : 1;
+    qSpare = Math.max(0, qSpare - qActive);
+    // Collector current falling to half.
+    const tDecay = decayShare * tauOff * Math.log((iCs + betaOff * iB2) / (0.5 * iCs + betaOff * iB2));
+    let tRise = millerLimitedRiseSeconds(vOL, v50, vcc, rc, cRise, iB2, cjcRise + cDroop);
+    if (qSpare > 0 && cjcRise > 0 && v50 > vOL) {
+      // The capacitor's spare charge takes the Miller charge in R_B's place as far as it goes: the
+      // output rises R_C-limited up to the level where that charge is used up (the knee: ngspice
+      // shows the base climbing back from below cut-in meanwhile), then Miller-limited on R_B's
+      // current as before, with the collector junction's (and clamp's) capacitance over that
+      // upper part of the swing.
+      const cjcOver = (a: number, b: number): number => jc.mean(vBE - a, vBE - b) + (js ? js.mean(vBE - a, vBE - b) : 0);
+      // R_B's current takes Miller charge too meanwhile (rounds settle the knee and the time).
+      const lowerSeconds = (vTo: number): number => millerLimitedRiseSeconds(vOL, vTo, vcc, rc, cRise, iB2, 0);
+      let vKnee = Math.min(v50, vOL + qSpare / cjcRise);
+      for (let k = 0; k < 3 && vKnee < v50; k++) vKnee = Math.min(v50, vOL + (qSpare + iB2 * lowerSeconds(vKnee)) / cjcOver(vOL, vKnee));
+      const tLower = lowerSeconds(vKnee);
+      let tUpper = 0;
+      if (vKnee < v50) {
+        const cjcUp = cjcOver(vKnee, v50);
+        tUpper = millerLimitedRiseSeconds(vKnee, v50, vcc, rc, load.capacitanceFarads + cTiedRise + cjcUp, iB2, cjcUp + cDroop);
+      }
+      tRise = tLower + tUpper;
+    }
+    return { ts, tDecay, tRise, total: ts + tDecay + tRise };
+  };
+  let r = rising(qSu);
+  // Where the capacitor takes about the stored charge, the estimate is steep (the storage time
+  // falls to nothing over some 10–20 % of capacitance, and ngspice puts that point up to 15 %
+  // either side of the estimate's): the engine takes the slower of the estimates with the full
+  // charge and with the margin held back, so it does not count on a capacitor just past it.
+  const margin = t.capacitorChargeMargin ?? CAPACITOR_CHARGE_MARGIN;
+  if (margin > 0 && qSu > 0 && !su?.clamp) {
+    const held = rising(qSu * (1 - margin));
+    if (held.total > r.total) r = held;
   }
-  // A capacitor that brings more than the stored and active charge drives the base below its low
-  // level, and the collector, still tied to it by the saturated collector junction's stored
-  // charge, follows it down; the output's pull-up (R_C, and the diode-AND loads' input currents)
-  // must return that spare charge through the junction before the output can rise (seen in
-  // ngspice as an output below ground for tens of ns). A clamped transistor never saturates, so
-  // its collector junction does not conduct.
-  const tHold = !su?.clamp && qSpare > 0 ? qSpare / Math.max(1e-9, Math.max(0, vcc - vOL) / rc + op.iLoadAmps) : 0;
-  const tPLH = ts + tDecay + tHold + tRise;
+  const { ts, tDecay, tRise } = r;
+  const tPLH = ts + tDecay + tRise;
   return {
     tPHLSeconds: tPHL,
     tPLHSeconds: tPLH,

@@ -112,7 +112,7 @@ export async function simulate(ng: Ngspice, c: Case, tempC = 27): Promise<{ tPHL
 }
 
 /** The analytic estimate at nominal parts and 27 °C (ngspice's default), the model's own gain. */
-export function analytic(c: Case): CellTiming {
+export function analytic(c: Case, capacitorChargeMargin = 0): CellTiming {
   const { def, values, vcc, loads } = c;
   const bf = d.npn.params.BF!;
   const env: CellEnv = {
@@ -136,7 +136,9 @@ export function analytic(c: Case): CellTiming {
       ? { vLowMaxVolts: 0.2, vHighMinVolts: vcc, orSourceAmps: 0, orSourceOhms: Infinity, orSourceMaxAmps: 0, ...(c.andSourceOhms ? { andSourceOhms: c.andSourceOhms } : { edgeSeconds: INPUT_EDGE_SECONDS }) }
       : { vLowMaxVolts: 0.05, vHighMinVolts: clamp, orSourceAmps: (vcc - clamp) / c.rs!, orSourceOhms: c.rs!, orSourceMaxAmps: (vcc - clamp) / c.rs! };
   const op = def.analyze(values, env, load, drive);
-  return cellTiming({ def, values, env, load, drive, op, npn: d.npn.params, diode: d.diode.params, fanin: 2, inputWiringFarads: 0, schottky: sch.params });
+  // The plain estimate unless a margin on a speed-up capacitor's charge is asked for (the engine's:
+  // CAPACITOR_CHARGE_MARGIN).
+  return cellTiming({ def, values, env, load, drive, op, npn: d.npn.params, diode: d.diode.params, fanin: 2, inputWiringFarads: 0, schottky: sch.params, capacitorChargeMargin });
 }
 
 export { CAPACITOR_KEY };
