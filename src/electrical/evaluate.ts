@@ -210,6 +210,40 @@ interface Tracker {
   corner: string[];
 }
 
+type Note = (i: number, value: number, limit: number) => void;
+
+/** The static checks of one operating point (one corner, one tolerance case), in a fixed order;
+ *  returns its worst-case power. */
+function checkPoint(op: CellOperatingPoint, env: CellEnv, o: ResolvedOptions, clampBound: number, note: Note): number {
+  note(CI.saturation, op.satMargin, o.saturationMarginMin);
+  note(CI["noise-margin-low"], op.noiseMarginLowVolts, o.noiseMarginMinVolts);
+  note(CI["noise-margin-high"], op.noiseMarginHighVolts, o.noiseMarginMinVolts);
+  if (o.collectorCurrentMinAmps > 0) note(CI["collector-current"], op.iCAmps, o.collectorCurrentMinAmps);
+  // A clamped output's low level rises with its current (V_BE − V_F); its loads take their
+  // low-state margins against the level at the bound current (clampedLowVolts), so the cell
+  // keeps its sink current within that bound.
+  if (clampBound > 0) note(CI["clamp-current"], op.iCAmps + op.iLoadAmps, clampBound);
+  if (o.turnOffRatioMin > 0) {
+    const ratio = op.iCAmps > 0 ? (op.iTurnOffAmps * env.dev.betaMin) / op.iCAmps : Infinity;
+    note(CI["turn-off-current"], ratio, o.turnOffRatioMin);
+  }
+  const p = Math.max(op.powerLowWatts, op.powerHighWatts);
+  if (o.powerCeilingWatts !== undefined) note(CI["power-ceiling"], p, o.powerCeilingWatts);
+  return p;
+}
+
+/** Switching times of one situation at one corner with the scaled values `v`, at the typical
+ *  junction drops of the models (see typicalDrops). */
+function timingAt(ctx: EvalContext, s: Situation, def: CellDefinition, values: CellValues, v: CellValues, c: number, env: CellEnv): CellTiming {
+  const o = ctx.opts;
+  const tenv = timingEnv(env, o);
+  const tload = loadFor(ctx, s, def, values, c, tenv, ctx.tol);
+  const tdrive = driveFor(ctx, s, values, tenv, ctx.tol);
+  const top = analyzeAt(ctx, s, v, tenv, tload, tdrive);
+  const ti: TimingInputs = { def, values: v, env: tenv, load: tload, drive: tdrive, op: top, npn: o.devices.npn.params, diode: o.devices.diode.params, fanin: s.fanin, inputWiringFarads: o.wiringCapacitancePerLoadFarads, schottky: (o.devices.schottky ?? DEFAULT_SCHOTTKY).card.params };
+  return cellTiming(ti);
+}
+
 /** Evaluates one situation. With `detail`, also returns the analysis for the report. */
 export function evaluateSituation(
   s: Situation,
@@ -271,30 +305,11 @@ export function evaluateSituation(
       caseNow = k;
       const v = scaled(values, tc.factors, detail ? {} : tc.scratch);
       const op = analyzeAt(ctx, s, v, env, load, drive);
-      note(CI.saturation, op.satMargin, o.saturationMarginMin);
-      note(CI["noise-margin-low"], op.noiseMarginLowVolts, o.noiseMarginMinVolts);
-      note(CI["noise-margin-high"], op.noiseMarginHighVolts, o.noiseMarginMinVolts);
-      if (o.collectorCurrentMinAmps > 0) note(CI["collector-current"], op.iCAmps, o.collectorCurrentMinAmps);
-      // A clamped output's low level rises with its current (V_BE − V_F); its loads take their
-      // low-state margins against the level at the bound current (clampedLowVolts), so the cell
-      // keeps its sink current within that bound.
-      if (clampBound > 0) note(CI["clamp-current"], op.iCAmps + op.iLoadAmps, clampBound);
-      if (o.turnOffRatioMin > 0) {
-        const ratio = op.iCAmps > 0 ? (op.iTurnOffAmps * env.dev.betaMin) / op.iCAmps : Infinity;
-        note(CI["turn-off-current"], ratio, o.turnOffRatioMin);
-      }
-      const p = Math.max(op.powerLowWatts, op.powerHighWatts);
+      const p = checkPoint(op, env, o, clampBound, note);
       if (p > worstWatts) worstWatts = p;
-      if (o.powerCeilingWatts !== undefined) note(CI["power-ceiling"], p, o.powerCeilingWatts);
       let timing: CellTiming | undefined;
       if (needTiming && !(tc.skipTiming && !detail)) {
-        // Timing at the typical junction drops of the models (see typicalDrops).
-        const tenv = timingEnv(env, o);
-        const tload = loadFor(ctx, s, def, values, c, tenv, ctx.tol);
-        const tdrive = driveFor(ctx, s, values, tenv, ctx.tol);
-        const top = analyzeAt(ctx, s, v, tenv, tload, tdrive);
-        const ti: TimingInputs = { def, values: v, env: tenv, load: tload, drive: tdrive, op: top, npn: o.devices.npn.params, diode: o.devices.diode.params, fanin: s.fanin, inputWiringFarads: o.wiringCapacitancePerLoadFarads, schottky: (o.devices.schottky ?? DEFAULT_SCHOTTKY).card.params };
-        timing = cellTiming(ti);
+        timing = timingAt(ctx, s, def, values, v, c, env);
         if (delayMax !== undefined) {
           note(CI["delay-fall"], timing.tPHLSeconds, delayMax);
           note(CI["delay-rise"], timing.tPLHSeconds, delayMax);
@@ -432,18 +447,108 @@ export function evaluateSituation(
   return { worstWatts, analysis, stresses };
 }
 
-const setCache = new WeakMap<readonly Situation[], SituationSet>();
+/** What evaluateType works through for one list of situations: the reduced set, the situations
+ *  to evaluate (the constraint set, then each power class's situation not in it), the power
+ *  classes' places in that list, and the cell kind when every situation has the same one. */
+interface TypePlan {
+  set: SituationSet;
+  list: Situation[];
+  powerAt: number[];
+  def: CellDefinition | undefined;
+}
+
+const planCache = new WeakMap<readonly Situation[], TypePlan>();
+
+function planOf(situations: readonly Situation[]): TypePlan {
+  let plan = planCache.get(situations);
+  if (plan) return plan;
+  const set = reduceSituations(situations);
+  const list: Situation[] = [...set.constraint];
+  const at = new Map<Situation, number>();
+  list.forEach((s, i) => at.set(s, i));
+  const powerAt: number[] = [];
+  for (const g of set.power) {
+    let i = at.get(g.situation);
+    if (i === undefined) {
+      // A power class's situation outside the constraint set is evaluated on its own, once for
+      // each class it stands for (as many times as it is met).
+      i = list.length;
+      list.push(g.situation);
+    }
+    powerAt.push(i);
+  }
+  const def = list.length > 0 && list.every((s) => s.def === list[0]!.def) ? list[0]!.def : undefined;
+  plan = { set, list, powerAt, def };
+  planCache.set(situations, plan);
+  return plan;
+}
+
+/** evaluateSituation without the detail, for several situations of one cell kind at once: the
+ *  same checks, corner by corner and tolerance case by tolerance case, each case's values
+ *  scaled once for all the situations. Margins are minima and powers maxima, so the order of the
+ *  checks does not change them. `watts[j]` gets situation j's worst-case power. */
+function evaluateKind(list: readonly Situation[], def: CellDefinition, values: CellValues, ctx: EvalContext, margins: Float64Array, watts: Float64Array): void {
+  const o = ctx.opts;
+  const cases = casesOf(def, ctx.tol);
+  const disabled = ctx.disabled;
+  const note: Note = (i, value, limit) => {
+    if (disabled !== undefined && disabled.has(i)) return;
+    const m = margin(value, limit, CONSTRAINTS[i]!.sense);
+    if (m < margins[i]!) margins[i] = m;
+  };
+  const delayMax = ctx.gateDelayMaxSeconds;
+  const clampBound = def.speedUp?.clamp ? clampBoundAmps(ctx.corners[0]!.env) : 0;
+  const ns = list.length;
+  const loads: OutputLoad[] = new Array<OutputLoad>(ns);
+  const drives: InputDrive[] = new Array<InputDrive>(ns);
+  watts.fill(0);
+  for (let c = 0; c < ctx.corners.length; c++) {
+    const env = ctx.corners[c]!.env;
+    for (let j = 0; j < ns; j++) {
+      const s = list[j]!;
+      loads[j] = loadFor(ctx, s, def, values, c, env, ctx.tol);
+      drives[j] = driveFor(ctx, s, values, env, ctx.tol);
+    }
+    const capCurrent = ctx.inputCurrentCap?.(c);
+    if (capCurrent !== undefined && ns > 0) note(CI["input-current"], def.inputLowAmpsWorst(values, ctx.tol, env), capCurrent);
+    for (let k = 0; k < cases.length; k++) {
+      const tc = cases[k]!;
+      const v = scaled(values, tc.factors, tc.scratch);
+      const timed = delayMax !== undefined && !tc.skipTiming;
+      for (let j = 0; j < ns; j++) {
+        const op = analyzeAt(ctx, list[j]!, v, env, loads[j]!, drives[j]!);
+        const p = checkPoint(op, env, o, clampBound, note);
+        if (p > watts[j]!) watts[j] = p;
+        if (timed) {
+          const timing = timingAt(ctx, list[j]!, def, values, v, c, env);
+          note(CI["delay-fall"], timing.tPHLSeconds, delayMax);
+          note(CI["delay-rise"], timing.tPLHSeconds, delayMax);
+        }
+      }
+    }
+  }
+  if (ctx.orDriveCapOhms !== undefined) {
+    for (const s of list) {
+      if (s.orLoads === 0) continue;
+      const rs = (values.rcOhms! * (1 + ctx.tol) * s.orLoads) / shareFactor(ctx.corners[0]!.env, s.orLoads);
+      note(CI["or-drive"], rs, ctx.orDriveCapOhms);
+    }
+  }
+}
 
 /** Evaluates a cell kind with `values` over its situations: the least margin per constraint and
  *  the count-weighted worst-case power. Dominated situations are skipped (see reduceSituations). */
 export function evaluateType(situations: readonly Situation[], values: CellValues, ctx: EvalContext): TypeEval {
-  let set = setCache.get(situations);
-  if (!set) {
-    set = reduceSituations(situations);
-    setCache.set(situations, set);
-  }
+  const plan = planOf(situations);
+  const set = plan.set;
   const margins = new Float64Array(NC).fill(Infinity);
   let objective = 0;
+  if (plan.def) {
+    const watts = new Float64Array(plan.list.length);
+    evaluateKind(plan.list, plan.def, values, ctx, margins, watts);
+    for (let g = 0; g < set.power.length; g++) objective += watts[plan.powerAt[g]!]! * set.power[g]!.cells;
+    return { margins, objectiveWatts: objective };
+  }
   const watts = new Map<Situation, number>();
   for (const s of set.constraint) watts.set(s, evaluateSituation(s, values, ctx, margins, false).worstWatts);
   for (const g of set.power) {

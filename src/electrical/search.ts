@@ -78,9 +78,20 @@ export function searchCell(spec: SearchSpec): SearchResult {
       closest = { values: { ...values }, worstMargin: wm, failing: failingIds(e.margins), margins: e.margins };
     }
   };
+  // The search meets some value sets more than once (a quarter of its evaluations on a large
+  // design: the free parameter's interval ends on a point its bisection has already
+  // evaluated, for one): each is evaluated once. Situations and context do not change during a
+  // search, and a TypeEval is never changed once made, so a remembered one is the same answer.
+  const seen = new Map<string, TypeEval>();
   const evalAt = (values: CellValues): TypeEval => {
     evaluations++;
-    return evaluateType(situations, values, ctx);
+    let key = "";
+    for (const k in values) key += `${k}=${values[k]!};`;
+    const hit = seen.get(key);
+    if (hit) return hit;
+    const e = evaluateType(situations, values, ctx);
+    seen.set(key, e);
+    return e;
   };
   const ok = (e: TypeEval, dir: number): boolean => {
     for (let i = 0; i < NC; i++) if (dirIdx[i] === dir && e.margins[i]! < -1e-12) return false;

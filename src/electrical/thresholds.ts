@@ -194,6 +194,15 @@ export function modelInputLowThreshold(
   const a = isAnd ? inp.pullUpOhms : inp.sourceOhms;
   const b = isAnd ? (inp.collectorSharedOhms ?? -1) : -2;
   const chainCode = chainCodeOf(c.chain);
+  // The sizing asks for one operating point's threshold for every load situation in a row
+  // (src/electrical/evaluate.ts): the last answer is checked first, without hashing.
+  const last = lastEntry;
+  if (
+    last !== undefined && lastDiode === dev.models.diode && lastNpn === dev.models.npn &&
+    last.chain === chainCode && last.a === a && last.b === b && last.rb === c.rbOhms && last.rc === c.rcOhms && last.vcc === vccVolts && last.t === dev.tempC && last.beta === dev.betaMin
+  ) {
+    return Number.isNaN(last.v) ? undefined : last.v;
+  }
   let h = mixBits(chainCode, a);
   h = mixBits(h, b);
   h = mixBits(h, c.rbOhms);
@@ -211,6 +220,7 @@ export function modelInputLowThreshold(
   if (bucket) {
     for (const e of bucket) {
       if (e.chain === chainCode && e.a === a && e.b === b && e.rb === c.rbOhms && e.rc === c.rcOhms && e.vcc === vccVolts && e.t === dev.tempC && e.beta === dev.betaMin) {
+        remember(dev.models.diode, dev.models.npn, e);
         return Number.isNaN(e.v) ? undefined : e.v;
       }
     }
@@ -231,6 +241,7 @@ export function modelInputLowThreshold(
   if (list) list.push(entry);
   else byCards.buckets.set(h, [entry]);
   byCards.size++;
+  remember(dev.models.diode, dev.models.npn, entry);
   return out;
 }
 
@@ -248,6 +259,16 @@ interface MemoEntry {
 }
 
 const THRESHOLD_MEMO_LIMIT = 200_000;
+/** The last threshold answered, with the model cards it was for. */
+let lastEntry: MemoEntry | undefined;
+let lastDiode: ModelParams | undefined;
+let lastNpn: ModelParams | undefined;
+
+function remember(diode: ModelParams, npn: ModelParams, e: MemoEntry): void {
+  lastEntry = e;
+  lastDiode = diode;
+  lastNpn = npn;
+}
 const thresholdMemo = new WeakMap<ModelParams, WeakMap<ModelParams, { size: number; buckets: Map<number, MemoEntry[]> }>>();
 
 /** The junction chain as a number: one bit per junction (follower 1), above a leading 1. */

@@ -461,6 +461,9 @@ async function parent(): Promise<void> {
       results.push(r);
       const shown = ALL_KEYS.map((k) => `${k} ${fmtMs(r.times.get(k) ? median(r.times.get(k)!) : undefined)}`).join(", ");
       print(`  ${entry.family} ${size} (${r.gates} gates, ${r.runs} run${r.runs === 1 ? "" : "s"}, ${(r.wallMs / 1000).toFixed(0)} s): ${shown}; peak ${r.peakRssMB} MB; ${emitText(r)}${r.stopped ? ` — ${r.stopped.why}` : ""}`);
+      // CPU time is less disturbed than wall time when other work shares the processors.
+      const cpuShown = ALL_KEYS.map((k) => `${k} ${fmtMs(r.cpu.get(k)?.length ? median(r.cpu.get(k)!) : undefined)}`).join(", ");
+      print(`    CPU (medians, ms): ${cpuShown}`);
       // Time caps: reduce, then skip, the stages that ran too long.
       for (const k of ["optimize", "equivalence", "plan"] as const) {
         const t = r.times.get(k);
