@@ -244,6 +244,12 @@ function timingAt(ctx: EvalContext, s: Situation, def: CellDefinition, values: C
   return cellTiming(ti);
 }
 
+/** Source resistance each diode-OR load of situation `s` sees from this cell's shared R_C (at its
+ *  high end, shared among the loads). */
+function orDriveOhms(ctx: EvalContext, s: Situation, values: CellValues): number {
+  return (values.rcOhms! * (1 + ctx.tol) * s.orLoads) / shareFactor(ctx.corners[0]!.env, s.orLoads);
+}
+
 /** Evaluates one situation. With `detail`, also returns the analysis for the report. */
 export function evaluateSituation(
   s: Situation,
@@ -358,7 +364,7 @@ export function evaluateSituation(
     }
   }
   if (ctx.orDriveCapOhms !== undefined && s.orLoads > 0) {
-    const rs = (values.rcOhms! * (1 + ctx.tol) * s.orLoads) / shareFactor(ctx.corners[0]!.env, s.orLoads);
+    const rs = orDriveOhms(ctx, s, values);
     cornerNow = 0;
     caseNow = -1;
     note(CI["or-drive"], rs, ctx.orDriveCapOhms);
@@ -530,7 +536,7 @@ function evaluateKind(list: readonly Situation[], def: CellDefinition, values: C
   if (ctx.orDriveCapOhms !== undefined) {
     for (const s of list) {
       if (s.orLoads === 0) continue;
-      const rs = (values.rcOhms! * (1 + ctx.tol) * s.orLoads) / shareFactor(ctx.corners[0]!.env, s.orLoads);
+      const rs = orDriveOhms(ctx, s, values);
       note(CI["or-drive"], rs, ctx.orDriveCapOhms);
     }
   }

@@ -418,7 +418,8 @@ export function cellTiming(t: TimingInputs): CellTiming {
   // off that much less Miller charge (ngspice: the base sinking some 50 mV through the rise, the
   // rise half as fast again as on R_B's current alone with 2 × 68 pF on the base). The emitter
   // junction's share of it, a few per cent of the Miller charge, is left out.
-  const vDroop = cBaseHeld > 0 && iRc50 > 0 && iCs > iRc50 ? (npn.NF ?? 1) * BOLTZMANN_OVER_Q * (d.tempC + 273.15) * Math.log(iCs / iRc50) : 0;
+  const vtNpn = (npn.NF ?? 1) * BOLTZMANN_OVER_Q * (d.tempC + 273.15);
+  const vDroop = cBaseHeld > 0 && iRc50 > 0 && iCs > iRc50 ? vtNpn * Math.log(iCs / iRc50) : 0;
   const cDroop = v50 > vOL ? (cBaseHeld * vDroop) / (v50 - vOL) : 0;
   // The rising edge with the capacitor taking the charge qSuX.
   const rising = (qSuX: number): { ts: number; tDecay: number; tRise: number; total: number } => {
@@ -463,8 +464,7 @@ export function cellTiming(t: TimingInputs): CellTiming {
         // rise back (ngspice: the base stopping some 30 mV short of V_BE, a slow rise). The part
         // of the shortfall inside that band is not spare.
         ts = tDrained;
-        const vt = (npn.NF ?? 1) * BOLTZMANN_OVER_Q * (d.tempC + 273.15);
-        const band = iRc50 > 0 ? Math.max(0, vt * Math.log(TYPICAL_TRANSISTOR_AMPS / (iRc50 / 2))) : 0;
+        const band = iRc50 > 0 ? Math.max(0, vtNpn * Math.log(TYPICAL_TRANSISTOR_AMPS / (iRc50 / 2))) : 0;
         qSpare = Math.max(0, qRefill - iJunction * tDrained - cSide * band);
       }
     } else {
