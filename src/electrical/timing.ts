@@ -8,7 +8,9 @@
 // (collector current rising with τ_β = β·τ_F, Turn-on 10–90 %: τ·ln((β·I_B1 − 0.1·I_C)/(β·I_B1 − 0.9·I_C))).
 // Output rising (t_PLH): storage time t_s = τ_s·ln((I_B1 + I_B2)/(I_B2 + I_C/β)) with the
 // reverse base current I_B2 = V_BE/R_B, then the collector current decays and R_C charges the
-// output node (load inputs, wiring and the collector junction).
+// output node (load inputs, wiring and the collector junction). The diode-AND loads' input
+// diodes conduct until the output nears their node's on level less a diode: below that their
+// junctions take no charge and (in an R_C-limited rise) their pull-ups help R_C.
 // Wired-AND: every other transistor tied onto the net adds its collector junction (base held
 // near ground by its R_B, so reverse biased by the output level) to the capacitance R_C must
 // charge on the rise and the one conducting transistor must discharge on the fall.
@@ -20,14 +22,17 @@
 //   through R_B as usual) or the stored charge is gone (the output rises, the base still held low
 //   by what is not refilled, which takes the Miller charge: the rise R_C-limited up to a knee).
 //   Through a Miller-limited rise the base sinks with the collector current, and the capacitance
-//   held on it hands that charge to R_B. Where the capacitor takes about the stored charge the
-//   estimate is steep; the engine's holds a margin of the charge back (CAPACITOR_CHARGE_MARGIN).
+//   held on it hands that charge to R_B, less the depth the base starts the rise below its on
+//   level. Where the capacitor takes about the stored charge (clamped: the Miller charge of the
+//   swing) the estimate is steep, as ngspice is; the engine's holds a margin of the charge back
+//   (CAPACITOR_CHARGE_MARGIN).
 //   On the output's fall the charge that recharges C_SU is delivered into the base (the input
 //   node need not charge the level-shift diodes first); a NOR's capacitors form a divider with
 //   the base's capacitance, so its transistor turns on through the rising input's capacitor
 //   (capacitorFedFall).
 // - Schottky clamp: no stored charge (t_s = 0); its junction capacitance adds to the collector
-//   junction's Miller charge on both edges and to the capacitance R_C charges.
+//   junction's Miller charge on both edges and to the capacitance R_C charges. The capacitor's
+//   charge is spare but for the band below the base's on level where the transistor conducts.
 // - a diode-AND load with a speed-up capacitor hands its C_SU·ΔV to its driver when the driver
 //   pulls it low (OutputLoad.speedUpChargeCoulombs), counted in the driver's fall.
 import type { CellDefinition, CellEnv, CellOperatingPoint, CellValues, InputDrive, OutputLoad } from "../cells/types.js";
@@ -157,6 +162,37 @@ export function millerLimitedRiseSeconds(
   if (vStar >= vTo) return (vTo - vFrom) / slew;
   if (vStar > vFrom) return (vStar - vFrom) / slew + rc(vStar, vTo);
   return rc(vFrom, vTo);
+}
+
+/** Diode-AND loads seen from the output they hang on: while the output is below offVolts, their
+ *  pull-ups send conductance·(sourceVolts − v) into it. */
+export interface LoadPull {
+  conductance: number;
+  sourceVolts: number;
+  offVolts: number;
+}
+
+/** Time for the output to rise from vFrom to vTo, R_C pulling it toward vTarget: below the
+ *  loads' turn-off (LoadPull) through capacitance cBelowFarads with their pull-ups helping (an RC
+ *  charge toward the Thévenin level of the two), above it through cAboveFarads toward vTarget
+ *  alone. */
+export function loadAidedRiseSeconds(
+  vFrom: number,
+  vTo: number,
+  vTarget: number,
+  rcOhms: number,
+  cBelowFarads: number,
+  cAboveFarads: number,
+  loads: LoadPull | undefined,
+): number {
+  if (vTo <= vFrom) return 0;
+  const plain = (v1: number, v2: number): number => millerLimitedRiseSeconds(v1, v2, vTarget, rcOhms, cAboveFarads, 0, 0);
+  if (!loads || !(loads.conductance > 0) || vFrom >= loads.offVolts) return plain(vFrom, vTo);
+  const g = 1 / rcOhms + loads.conductance;
+  const vTh = (vTarget / rcOhms + loads.conductance * loads.sourceVolts) / g;
+  const vMid = Math.min(vTo, loads.offVolts);
+  const tAided = vTh > vMid ? (cBelowFarads / g) * Math.log((vTh - vFrom) / (vTh - vMid)) : Infinity;
+  return tAided + plain(vMid, vTo);
 }
 
 /** A junction's depletion capacitance with a memo: switching analyses ask for the same voltage
@@ -411,7 +447,26 @@ export function cellTiming(t: TimingInputs): CellTiming {
   // Output rising: Miller-limited first, then R_C charging the load and the collector junction
   // (and the clamp diode's junction).
   const cjcRise = jc.mean(vBE - vOL, vBE - v50) + (js ? js.mean(vBE - vOL, vBE - v50) : 0);
-  const cRise = load.capacitanceFarads + cTiedRise + cjcRise;
+  // The diode-AND loads' input diodes conduct until the output nears their input node's on level
+  // (every diode-AND cell here conducts at two diode drops and a V_BE) less a diode, so their
+  // junctions change no charge below that; above it they are reverse-biased, from zero bias to the
+  // node's level less the output's, and take that charge (the falling edge's split, reversed).
+  const vLoadNode = 2 * d.vDiodeOnVolts + d.vBESatVolts;
+  const loadOff = vLoadNode - d.vDiodeOnVolts;
+  const andDiodeCount = cAndDiodes > 0 && jd.cj0 > 0 ? cAndDiodes / jd.cj0 : 0;
+  const qAndDiodes = (v: number): number => andDiodeCount * jd.charge(0, Math.min(0, vLoadNode - v));
+  // The output's own capacitance without those diodes (wiring, tied collectors), and with their
+  // charge spread over a rise from vFrom to vTo.
+  const cOutBare = load.capacitanceFarads - (andDiodeCount > 0 ? cAndDiodes : 0) + cTiedRise;
+  const cOutOver = (vFrom: number, vTo: number): number => cOutBare + (andDiodeCount > 0 && vTo > vFrom ? (qAndDiodes(vTo) - qAndDiodes(vFrom)) / (vTo - vFrom) : 0);
+  const cRise = cOutOver(vOL, v50) + cjcRise;
+  // Below that level the loads' pull-ups send their input current into the output too: I_load at
+  // V_OL, less as the output rises (each R_P from V_CC − V_D).
+  const loadSource = vcc - d.vDiodeOnVolts;
+  const loadPull: LoadPull | undefined =
+    op.iLoadAmps > 0 && loadSource > vOL
+      ? { conductance: op.iLoadAmps / (loadSource - vOL), sourceVolts: loadSource, offVolts: loadOff }
+      : undefined;
   // As the output rises the collector current falls from I_C to R_C's current at the 50 % point,
   // and V_BE with it (by V_T·ln of their ratio): the capacitance held on the base (the speed-up
   // capacitors, to nodes that stay put) gives up that droop's charge to R_B, which then carries
@@ -425,10 +480,25 @@ export function cellTiming(t: TimingInputs): CellTiming {
   const rising = (qSuX: number): { ts: number; tDecay: number; tRise: number; total: number } => {
     let ts: number;
     let qSpare: number;
+    // The droop, less the depth the base starts the rise below its on level: a base that comes
+    // back from below (a clamped transistor's, or one whose stored charge ran out first) may
+    // already be beneath the level at which the transistor carries R_C's current at the 50 %
+    // point (ngspice: the base then rising, not sinking, through the rise).
+    let shortfall = 0;
+    // The transistor conducts again well before its base is back where it started: within
+    // V_T·ln(I/I_C) of it, it takes half of R_C's current at the 50 % point and holds the rise
+    // back (ngspice: the base stopping some 30–60 mV short, a slow rise). A shortfall inside that
+    // band is not spare. The band is reckoned from V_BE at 1 mA for a saturated transistor, from
+    // its on current for a clamped one (held active: ngspice shows it 58 mV below its starting
+    // level at 4.5 mA on one development circuit).
+    const bandFrom = (iFrom: number): number => (iRc50 > 0 ? Math.max(0, vtNpn * Math.log(iFrom / (iRc50 / 2))) : 0);
+    const cSide = cBaseHeld + je.mean(0, vBE);
     if (su?.clamp) {
-      // A clamped transistor holds no stored charge: the capacitor's charge is all spare.
+      // A clamped transistor holds no stored charge: the capacitor's charge is spare but for the
+      // band.
       ts = 0;
-      qSpare = qOff + qSuX;
+      qSpare = Math.max(0, qOff + qSuX - cSide * bandFrom(iCs));
+      shortfall = (qOff + qSuX) / cSide;
     } else if (qSuX > 0) {
       // The capacitor pulls the base down at once, and the collector with it: the saturated
       // collector junction's stored charge ties them together (ngspice shows base and output
@@ -443,8 +513,8 @@ export function cellTiming(t: TimingInputs): CellTiming {
       // side (through the junction) and the output's own capacitance, in proportion. The output
       // sits below its low level meanwhile, by half the dip on average (the dip: the capacitor's
       // charge over base side and output together), and the pull-up sends that much more.
-      const cSide = cBaseHeld + je.mean(0, vBE);
-      const cOut = load.capacitanceFarads + cTiedRise;
+      // (The loads' input diodes conduct meanwhile: only the bare output's capacitance.)
+      const cOut = cOutBare;
       const vHoldMean = vOL - qRefill / (cSide + cOut) / 2;
       const loadHead = vcc - d.vDiodeOnVolts - vOL;
       const iHoldLow = Math.max(0, vcc - vHoldMean) / rc + (loadHead > 0 ? (op.iLoadAmps * (vcc - d.vDiodeOnVolts - vHoldMean)) / loadHead : op.iLoadAmps);
@@ -458,14 +528,10 @@ export function cellTiming(t: TimingInputs): CellTiming {
         qSpare = 0;
       } else {
         // Drained first: the collector junction lets go and the output rises, the base still
-        // below its level by what the pull-up has not returned yet.
-        // The transistor conducts again well before its base is back at V_BE: within
-        // V_T·ln(I/I_C) of it, it takes half of R_C's current at the 50 % point and holds the
-        // rise back (ngspice: the base stopping some 30 mV short of V_BE, a slow rise). The part
-        // of the shortfall inside that band is not spare.
+        // below its level by what the pull-up has not returned yet (less the band).
         ts = tDrained;
-        const band = iRc50 > 0 ? Math.max(0, vtNpn * Math.log(TYPICAL_TRANSISTOR_AMPS / (iRc50 / 2))) : 0;
-        qSpare = Math.max(0, qRefill - iJunction * tDrained - cSide * band);
+        shortfall = Math.max(0, qRefill - iJunction * tDrained) / cSide;
+        qSpare = Math.max(0, qRefill - iJunction * tDrained - cSide * bandFrom(TYPICAL_TRANSISTOR_AMPS));
       }
     } else {
       // The level-shift diodes' recovery charge comes off the stored charge at once.
@@ -475,11 +541,12 @@ export function cellTiming(t: TimingInputs): CellTiming {
     }
     // Charge beyond the stored charge removes the active charge τ_F·I_C first, then holds the base
     // below cut-in against the Miller charge.
+    const droop = vDroop > shortfall ? cDroop * (1 - shortfall / vDroop) : 0;
     const decayShare = qSpare > 0 && qActive > 0 ? Math.max(0, 1 - qSpare / qActive) : 1;
     qSpare = Math.max(0, qSpare - qActive);
     // Collector current falling to half.
     const tDecay = decayShare * tauOff * Math.log((iCs + betaOff * iB2) / (0.5 * iCs + betaOff * iB2));
-    let tRise = millerLimitedRiseSeconds(vOL, v50, vcc, rc, cRise, iB2, cjcRise + cDroop);
+    let tRise = millerLimitedRiseSeconds(vOL, v50, vcc, rc, cRise, iB2, cjcRise + droop);
     if (qSpare > 0 && cjcRise > 0 && v50 > vOL) {
       // The capacitor's spare charge takes the Miller charge in R_B's place as far as it goes: the
       // output rises R_C-limited up to the level where that charge is used up (the knee: ngspice
@@ -488,26 +555,28 @@ export function cellTiming(t: TimingInputs): CellTiming {
       // upper part of the swing.
       const cjcOver = (a: number, b: number): number => jc.mean(vBE - a, vBE - b) + (js ? js.mean(vBE - a, vBE - b) : 0);
       // R_B's current takes Miller charge too meanwhile (rounds settle the knee and the time).
-      const lowerSeconds = (vTo: number): number => millerLimitedRiseSeconds(vOL, vTo, vcc, rc, cRise, iB2, 0);
+      // Below the loads' turn-off the diode-AND loads' pull-ups help R_C (loadAidedRiseSeconds).
+      const lowerSeconds = (vTo: number): number => loadAidedRiseSeconds(vOL, vTo, vcc, rc, cOutBare + cjcRise, cOutOver(Math.max(vOL, loadOff), vTo) + cjcRise, loadPull);
       let vKnee = Math.min(v50, vOL + qSpare / cjcRise);
       for (let k = 0; k < 3 && vKnee < v50; k++) vKnee = Math.min(v50, vOL + (qSpare + iB2 * lowerSeconds(vKnee)) / cjcOver(vOL, vKnee));
       const tLower = lowerSeconds(vKnee);
       let tUpper = 0;
       if (vKnee < v50) {
         const cjcUp = cjcOver(vKnee, v50);
-        tUpper = millerLimitedRiseSeconds(vKnee, v50, vcc, rc, load.capacitanceFarads + cTiedRise + cjcUp, iB2, cjcUp + cDroop);
+        tUpper = millerLimitedRiseSeconds(vKnee, v50, vcc, rc, cOutOver(vKnee, v50) + cjcUp, iB2, cjcUp + droop);
       }
       tRise = tLower + tUpper;
     }
     return { ts, tDecay, tRise, total: ts + tDecay + tRise };
   };
   let r = rising(qSu);
-  // Where the capacitor takes about the stored charge, the estimate is steep (the storage time
-  // falls to nothing over some 10–20 % of capacitance, and ngspice puts that point up to 15 %
-  // either side of the estimate's): the engine takes the slower of the estimates with the full
-  // charge and with the margin held back, so it does not count on a capacitor just past it.
+  // Where the capacitor takes about the stored charge (clamped: the Miller charge of the whole
+  // swing), the estimate is steep (the delay falls by 2–7× over some 10–20 % of capacitance, and
+  // ngspice puts that point up to 15 % either side of the estimate's): the engine takes the
+  // slower of the estimates with the full charge and with the margin held back, so it does not
+  // count on a capacitor just past it.
   const margin = t.capacitorChargeMargin ?? CAPACITOR_CHARGE_MARGIN;
-  if (margin > 0 && qSu > 0 && !su?.clamp) {
+  if (margin > 0 && qSu > 0) {
     const held = rising(qSu * (1 - margin));
     if (held.total > r.total) r = held;
   }

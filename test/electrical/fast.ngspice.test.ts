@@ -1,8 +1,12 @@
 // The fast variants' analytic switching times (src/electrical/timing.ts) against ngspice
 // transients (eecircuit-engine runs ngspice in-process). The model was written against one
 // circuit per kind (5 V, R_P = R_B = 5 kΩ, R_C = 2.2 kΩ, 33 pF, 20 pF on the output; the
-// high-fan-out cells at 3.9k/8.2k/8.2k/3.3k with 12 loads); the grid below is different values,
-// supplies, loads and capacitors and was not used to tune it. Real NAND loads plus 3 pF wiring
+// high-fan-out cells at 3.9k/8.2k/8.2k/3.3k with 12 loads, and the development grid of
+// test/electrical/timing-dev-grid.ts). The grids below are different values, supplies, loads and
+// capacitors, each chosen before its first run. Each was a check of the model as it then stood;
+// once a later change was worked out with a grid's figures in view, that grid became regression
+// cases: the rising edge's last rework (see the sixth grid) was worked out with the first five
+// in view, so the sixth is the check of the model as it stands. Real NAND loads plus 3 pF wiring
 // each on the output; delays at 50 % of each swing.
 import { describe, expect, it } from "vitest";
 import { CELLS } from "../../src/cells/registry.js";
@@ -83,12 +87,41 @@ const CASES: Case[] = [
   { def: byId("nand-cap"), values: { rpOhms: 12000, rbOhms: 15000, rcOhms: 4700, csuFarads: 68e-12 }, vcc: 7, loads: 5 },
   { def: byId("nand-cap"), values: { rpOhms: 22000, rbOhms: 15000, rcOhms: 6800, csuFarads: 68e-12 }, vcc: 12, loads: 6 },
   { def: byId("nand-cap"), values: { rpOhms: 22000, rbOhms: 15000, rcOhms: 6800, csuFarads: 82e-12 }, vcc: 12, loads: 6 },
+  // A sixth grid, chosen before its first run, after four changes to the rising edge worked out
+  // on the development circuits and the five grids above: the diode-AND loads' pull-ups helping
+  // R_C below the loads' turn-off, their input diodes' junction charge counted only above it, the
+  // band below V_BE for clamped cells reckoned from their on current, and the base's droop less
+  // the depth it starts the rise below its on level. The capacitor cells placed as before (by
+  // the model alone, either side of the estimate's steepest step, and well past it); the clamped
+  // cells with capacitors either side of the point where the capacitor's charge takes the Miller
+  // charge of the whole swing.
+  { def: byId("nand-cap"), values: { rpOhms: 10000, rbOhms: 12000, rcOhms: 3900, csuFarads: 82e-12 }, vcc: 8, loads: 5 },
+  { def: byId("nand-cap"), values: { rpOhms: 10000, rbOhms: 12000, rcOhms: 3900, csuFarads: 100e-12 }, vcc: 8, loads: 5 },
+  { def: byId("nand-cap"), values: { rpOhms: 10000, rbOhms: 12000, rcOhms: 3900, csuFarads: 150e-12 }, vcc: 8, loads: 5 },
+  { def: byId("nor-cap"), values: { rbOhms: 15000, rcOhms: 5600, csuFarads: 100e-12 }, vcc: 10, loads: 4, rs: 6200 },
+  { def: byId("nor-cap"), values: { rbOhms: 15000, rcOhms: 5600, csuFarads: 120e-12 }, vcc: 10, loads: 4, rs: 6200 },
+  { def: byId("nand-fast"), values: { rpOhms: 18000, rbOhms: 18000, rcOhms: 6800, csuFarads: 33e-12 }, vcc: 12, loads: 5 },
+  { def: byId("nand-fast"), values: { rpOhms: 18000, rbOhms: 18000, rcOhms: 6800, csuFarads: 39e-12 }, vcc: 12, loads: 5 },
+  { def: byId("nor-fast"), values: { rbOhms: 10000, rcOhms: 4300, csuFarads: 15e-12 }, vcc: 6, loads: 5, rs: 3900 },
+  { def: byId("nand-hifan-fast"), values: { rxOhms: 4700, rpOhms: 10000, rbOhms: 10000, rcOhms: 3900, csuFarads: 22e-12 }, vcc: 8, loads: 10 },
+  { def: byId("nand-hifan-fast"), values: { rxOhms: 4700, rpOhms: 10000, rbOhms: 10000, rcOhms: 3900, csuFarads: 27e-12 }, vcc: 8, loads: 10 },
+  { def: byId("nand-clamp"), values: { rpOhms: 10000, rbOhms: 12000, rcOhms: 3900 }, vcc: 8, loads: 5 },
+  { def: byId("nor-clamp"), values: { rbOhms: 15000, rcOhms: 5600 }, vcc: 10, loads: 4, rs: 6200 },
+  { def: byId("nand-hifan-clamp"), values: { rxOhms: 5600, rpOhms: 15000, rbOhms: 12000, rcOhms: 5600 }, vcc: 12, loads: 8 },
 ];
 
-/** Regression cases whose t_PLH estimate runs slow (see below): cell, supply, R_B, capacitor. */
-const SLOW_NEAR_POINT = new Set(["nor-cap 12 V 22000 1.2e-10", "nor-cap 15 V 27000 1.2e-10"]);
+/** Share of capacitance either side of a case's capacitor over which the estimate is also read:
+ *  ±10 %, the tolerance that goes with the E12 series (IEC 60063; the sizing's default E6 goes
+ *  with ±20 %). */
+const CAP_WINDOW = 0.1;
+/** An estimate that changes by more than this factor across that window is steep: the case sits
+ *  where the capacitor takes about the stored charge (or, clamped, the Miller charge of the whole
+ *  swing). There ngspice's own t_PLH moves as much (one NOR at 12 V: 709, 475 and 229 ns at 115,
+ *  120 and 125 pF), so a part within its tolerance decides the delay, and the check compares the
+ *  two curves by capacitance instead: ngspice within ±30 % of the estimate somewhere in the window. */
+const STEEP = 1.5;
 
-describe("fast variants: analytic delays against ngspice (grid not used for tuning)", () => {
+describe("fast variants: analytic delays against ngspice (check grid and regression cases)", () => {
   for (const c of CASES) {
     it(`${c.def.id} ${JSON.stringify(c.values)} at ${c.vcc} V, ${c.loads} loads`, async () => {
       const sim = await simulate(ng, c);
@@ -96,21 +129,29 @@ describe("fast variants: analytic delays against ngspice (grid not used for tuni
       const rise = est.tPLHSeconds / sim.tPLH;
       const fall = est.tPHLSeconds / sim.tPHL;
       const pd = (est.tPHLSeconds + est.tPLHSeconds) / (sim.tPHL + sim.tPLH);
+      // The estimate with the capacitor at the window's ends (the larger capacitor the faster).
+      const csu = c.values.csuFarads;
+      const atCap = (f: number) => (csu ? analytic({ ...c, values: { ...c.values, csuFarads: csu * f } }) : est);
+      const fast = atCap(1 + CAP_WINDOW);
+      const slow = atCap(1 - CAP_WINDOW);
+      const steep = slow.tPLHSeconds / fast.tPLHSeconds > STEEP;
       // The engine's own estimate, with its margin on a speed-up capacitor's charge.
       const engineRise = analytic(c, CAPACITOR_CHARGE_MARGIN).tPLHSeconds / sim.tPLH;
-      ratios.push(`${c.def.id} ${c.vcc} V ${c.values.csuFarads ? `${Math.round(c.values.csuFarads * 1e12)} pF` : ""}: t_PHL ${(sim.tPHL * 1e9).toFixed(1)} ns (×${fall.toFixed(2)}), t_PLH ${(sim.tPLH * 1e9).toFixed(1)} ns (×${rise.toFixed(2)}; engine ×${engineRise.toFixed(2)})`);
+      ratios.push(`${c.def.id} ${c.vcc} V ${csu ? `${Math.round(csu * 1e12)} pF` : ""}: t_PHL ${(sim.tPHL * 1e9).toFixed(1)} ns (×${fall.toFixed(2)}), t_PLH ${(sim.tPLH * 1e9).toFixed(1)} ns (×${rise.toFixed(2)}${steep ? `, steep: ×${(fast.tPLHSeconds / sim.tPLH).toFixed(2)}–${(slow.tPLHSeconds / sim.tPLH).toFixed(2)} over ±10 %` : ""}; engine ×${engineRise.toFixed(2)})`);
       // ngspice transient (embedded): t_PLH, t_PHL and t_pd = (t_PHL + t_PLH)/2 (common
-      // practice) each within ±30 % (issue 8's accuracy). The first, second and fifth grids were
-      // each run only once the model was final for them and hold it everywhere. The third and
-      // fourth were run on the way (their first-run figures are in their comments), so they are
-      // regression cases now; two of their NORs, the capacitor just past the point where it takes
-      // the stored charge, read slow (the safe side) and are held to 2: the estimate has the base
-      // end the hold inside the band where the transistor conducts again, ngspice a little below.
-      const slowNearPoint = SLOW_NEAR_POINT.has(`${c.def.id} ${c.vcc} V ${c.values.rbOhms} ${c.values.csuFarads}`);
-      expect(rise, `t_PLH ${est.tPLHSeconds} s against ${sim.tPLH} s`).toBeGreaterThan(0.7);
-      expect(rise, `t_PLH ${est.tPLHSeconds} s against ${sim.tPLH} s`).toBeLessThan(slowNearPoint ? 2 : 1.3);
-      expect(pd, `t_pd ratio ${pd}`).toBeGreaterThan(0.7);
-      expect(pd, `t_pd ratio ${pd}`).toBeLessThan(slowNearPoint ? 2 : 1.3);
+      // practice) each within ±30 % (issue 8's accuracy). Where the estimate is steep (STEEP),
+      // t_PLH and t_pd are within ±30 % of the estimate at some capacitor in the window.
+      if (steep) {
+        expect(fast.tPLHSeconds / sim.tPLH, `t_PLH at +10 %: ${fast.tPLHSeconds} s against ${sim.tPLH} s`).toBeLessThan(1.3);
+        expect(slow.tPLHSeconds / sim.tPLH, `t_PLH at −10 %: ${slow.tPLHSeconds} s against ${sim.tPLH} s`).toBeGreaterThan(0.7);
+        expect((fast.tPHLSeconds + fast.tPLHSeconds) / (sim.tPHL + sim.tPLH), "t_pd at +10 %").toBeLessThan(1.3);
+        expect((slow.tPHLSeconds + slow.tPLHSeconds) / (sim.tPHL + sim.tPLH), "t_pd at −10 %").toBeGreaterThan(0.7);
+      } else {
+        expect(rise, `t_PLH ${est.tPLHSeconds} s against ${sim.tPLH} s`).toBeGreaterThan(0.7);
+        expect(rise, `t_PLH ${est.tPLHSeconds} s against ${sim.tPLH} s`).toBeLessThan(1.3);
+        expect(pd, `t_pd ratio ${pd}`).toBeGreaterThan(0.7);
+        expect(pd, `t_pd ratio ${pd}`).toBeLessThan(1.3);
+      }
       // What the sizing counts on is never more than FAST_DELAY_GUARD (20 %) faster than ngspice.
       expect(engineRise, `engine t_PLH against ${sim.tPLH} s`).toBeGreaterThan(0.8);
       expect(fall, `t_PHL ${est.tPHLSeconds} s against ${sim.tPHL} s`).toBeGreaterThan(0.7);
