@@ -110,7 +110,7 @@ function collapseCones(g: LogicGraph, ctx: CollapseOptions): LogicGraph {
     seenNodes.add(id);
     let support = supportOf(f, id, undefined, L.heuristicMaxVariables);
     let dc = ctx.dontCares?.get(p.name);
-    if (dc && (f.readers[id]!.length > 0 || portsOf.get(id)! > 1)) dc = undefined;
+    if (dc && (f.readerCounts[id]! > 0 || portsOf.get(id)! > 1)) dc = undefined;
     if (support && dc) {
       const extra = dc.variables.map((v) => inputByName.get(v)!).filter((x) => !support!.includes(x));
       if (extra.length) support = [...support, ...extra].sort((a, b) => a - b);
@@ -397,11 +397,17 @@ function collapseRegions(g: LogicGraph, ctx: CollapseOptions): LogicGraph {
     const op = g.nodes[id]!.op;
     return op !== "input" && op !== "const0" && op !== "const1" && op !== "buf" && !f.free.has(id);
   };
-  // Region roots: gates read more than once, outputs, and the operands of state signals.
+  // Region roots: gates read more than once, outputs, and the operands of state signals (and
+  // of buffers).
+  const readerCounts = f.readerCounts;
+  const readByStateOrBuffer = new Uint8Array(g.nodes.length);
+  g.nodes.forEach((n, id) => {
+    if (n.op === "buf" || f.cuts.has(id)) for (const each of n.fanins) readByStateOrBuffer[each] = 1;
+  });
   const stops = new Set<number>();
   g.nodes.forEach((_, id) => {
     if (!isGate(id)) return;
-    if (f.readers[id]!.length > 1 || ports.has(id) || f.readers[id]!.some((r) => f.cuts.has(r) || g.nodes[r]!.op === "buf")) stops.add(id);
+    if (readerCounts[id]! > 1 || ports.has(id) || readByStateOrBuffer[id]) stops.add(id);
   });
   for (const p of g.outputs) if (isGate(p.node)) stops.add(p.node);
   const accepted = new Map<number, Replacement>();

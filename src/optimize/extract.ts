@@ -32,7 +32,7 @@ export function extractCommon(g: LogicGraph, ctx: PassContext): LogicGraph {
   const f = graphFacts(g, ctx.stateNames);
   const pinned = new Set<number>([...g.outputs.map((p) => p.node), ...f.cuts]);
   const table = new LeafTable();
-  const sops = readSops(g, f.readers, pinned, table, stateConeNodes(f));
+  const sops = readSops(g, f.readerCounts, pinned, table, stateConeNodes(f));
   if (sops.length === 0) return g;
   const base = table.leaves.length;
   const divisors: Sum[] = []; // pseudo variable base + i stands for divisors[i]

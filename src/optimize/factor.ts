@@ -15,7 +15,7 @@ export function factorNodes(g: LogicGraph, ctx: PassContext): LogicGraph {
   const pinned = new Set<number>([...g.outputs.map((p) => p.node), ...f.cuts]);
   const table = new LeafTable();
   const replacements = new Map<number, Replacement>();
-  for (const s of readSops(g, f.readers, pinned, table, stateConeNodes(f))) {
+  for (const s of readSops(g, f.readerCounts, pinned, table, stateConeNodes(f))) {
     const local = localize(s.sum, table);
     const form = factorSum(local.sum);
     if (formLiterals(form) >= literalsOf(local.sum)) continue;

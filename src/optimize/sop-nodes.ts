@@ -28,14 +28,15 @@ export function literalOf(g: LogicGraph, id: number, table: LeafTable): number {
   return n.op === "not" ? 2 * table.of(n.fanins[0]!) + 1 : 2 * table.of(id);
 }
 
-/** Sums of products of the OR nodes (not those in `skip`) with their terms read as described. */
-export function readSops(g: LogicGraph, readers: readonly (readonly number[])[], pinned: ReadonlySet<number>, table: LeafTable, skip?: Uint8Array): SopNode[] {
+/** Sums of products of the OR nodes (not those in `skip`) with their terms read as described;
+ *  `readerCounts` gives the number of readers of each node. */
+export function readSops(g: LogicGraph, readerCounts: ArrayLike<number>, pinned: ReadonlySet<number>, table: LeafTable, skip?: Uint8Array): SopNode[] {
   const out: SopNode[] = [];
   g.nodes.forEach((n, id) => {
     if (n.op !== "or" || skip?.[id]) return;
     const sum: Sum = n.fanins.map((x) => {
       const c = g.nodes[x]!;
-      if (c.op === "and" && readers[x]!.length === 1 && !pinned.has(x)) {
+      if (c.op === "and" && readerCounts[x] === 1 && !pinned.has(x)) {
         return [...new Set(c.fanins.map((y) => literalOf(g, y, table)))].sort((a, b) => a - b);
       }
       return [literalOf(g, x, table)];

@@ -15,6 +15,8 @@ export interface GraphFacts {
   free: Set<number>;
   order: number[];
   readers: number[][];
+  /** Number of readers of each node (the lengths of `readers`, without the lists). */
+  readerCounts: Int32Array;
   /** Position of each node in `order` (made when first needed). */
   pos?: Int32Array;
 }
@@ -37,25 +39,68 @@ function positions(f: GraphFacts): Int32Array {
   return f.pos;
 }
 
+/** The facts of `g`. The evaluation order and the readers are worked out when first read (a
+ *  pass that needs neither, such as one that asks only which nodes feed a state signal, does
+ *  not pay for them): reading `order` of a graph whose loops are not broken at the state
+ *  signals throws. */
 export function graphFacts(g: LogicGraph, stateNames: readonly string[]): GraphFacts {
   const states = new Set(stateNames);
   const cuts = new Set<number>();
-  g.nodes.forEach((n, id) => {
-    if (n.name !== undefined && states.has(n.name) && n.op !== "input") cuts.add(id);
-  });
-  const order = evaluationOrder(g, cuts);
-  if (!order) throw new Error("a loop is not broken at the state signals");
+  if (states.size) {
+    g.nodes.forEach((n, id) => {
+      if (n.name !== undefined && states.has(n.name) && n.op !== "input") cuts.add(id);
+    });
+  }
   const free = new Set<number>(cuts);
   for (const p of g.inputs) free.add(p.node);
-  const readers: number[][] = g.nodes.map(() => []);
-  g.nodes.forEach((n, id) => {
-    if (cuts.has(id)) return; // a state signal's operand is read at the next step, not now
-    for (const f of n.fanins) readers[f]!.push(id);
-  });
+  let order: number[] | undefined;
+  let readers: number[][] | undefined;
+  let readerCounts: Int32Array | undefined;
+  return {
+    g,
+    cuts,
+    free,
+    get order(): number[] {
+      if (!order) {
+        order = evaluationOrder(g, cuts);
+        if (!order) throw new Error("a loop is not broken at the state signals");
+      }
+      return order;
+    },
+    get readers(): number[][] {
+      return (readers ??= readersOf(g, cuts));
+    },
+    get readerCounts(): Int32Array {
+      return (readerCounts ??= readerCountsOf(g));
+    },
+  };
+}
+
+/** The lengths of readersOf's lists: every operand of every node once per time it is read (a
+ *  state signal's operands too, which readersOf lists last). */
+function readerCountsOf(g: LogicGraph): Int32Array {
+  const nodes = g.nodes;
+  const count = new Int32Array(nodes.length);
+  for (let id = 0; id < nodes.length; id++) {
+    const fanins = nodes[id]!.fanins;
+    for (let i = 0; i < fanins.length; i++) count[fanins[i]!]!++;
+  }
+  return count;
+}
+
+function readersOf(g: LogicGraph, cuts: ReadonlySet<number>): number[][] {
+  const nodes = g.nodes;
+  const readers: number[][] = new Array(nodes.length);
+  for (let id = 0; id < nodes.length; id++) readers[id] = [];
+  for (let id = 0; id < nodes.length; id++) {
+    if (cuts.has(id)) continue; // a state signal's operand is read at the next step, not now
+    const fanins = nodes[id]!.fanins;
+    for (let i = 0; i < fanins.length; i++) readers[fanins[i]!]!.push(id);
+  }
   // A state signal's operand is read (by the state); count it so that it is never taken as
   // unread.
-  for (const c of cuts) for (const f of g.nodes[c]!.fanins) readers[f]!.push(c);
-  return { g, cuts, free, order, readers };
+  for (const c of cuts) for (const f of nodes[c]!.fanins) readers[f]!.push(c);
+  return readers;
 }
 
 /**
@@ -63,27 +108,50 @@ export function graphFacts(g: LogicGraph, stateNames: readonly string[]): GraphF
  * itself), in ascending id order. Undefined when there are more than `limit`.
  */
 export function supportOf(f: GraphFacts, root: number, stops?: ReadonlySet<number>, limit = Infinity): number[] | undefined {
+  const nodes = f.g.nodes;
+  const w = walkOf(f);
+  const seen = w.seen;
+  const stack = w.stack;
+  const mark = ++w.epoch;
+  const free = w.free;
+  let sp = 0;
+  // A node goes on the stack once, when first seen (so the stack never exceeds the nodes).
+  const push = (id: number) => {
+    if (seen[id] === mark) return;
+    seen[id] = mark;
+    stack[sp++] = id;
+  };
+  if (free[root] && !f.cuts.has(root)) push(root);
+  else for (const each of nodes[root]!.fanins) push(each);
   const out: number[] = [];
-  const seen = new Set<number>();
-  const stack = f.free.has(root) ? [root] : [...f.g.nodes[root]!.fanins];
-  if (f.cuts.has(root)) {
-    stack.length = 0;
-    for (const each of f.g.nodes[root]!.fanins) stack.push(each);
-  }
-  while (stack.length) {
-    const id = stack.pop()!;
-    if (seen.has(id)) continue;
-    seen.add(id);
-    if (f.free.has(id) || (stops?.has(id) && id !== root)) {
+  while (sp > 0) {
+    const id = stack[--sp]!;
+    if (free[id] || (stops !== undefined && id !== root && stops.has(id))) {
       out.push(id);
       if (out.length > limit) return undefined;
       continue;
     }
-    const n = f.g.nodes[id]!;
+    const n = nodes[id]!;
     if (n.op === "const0" || n.op === "const1") continue;
-    for (const each of n.fanins) stack.push(each);
+    const fanins = n.fanins;
+    for (let i = 0; i < fanins.length; i++) push(fanins[i]!);
   }
   return out.sort((a, b) => a - b);
+}
+
+/** Per-node arrays the walks of supportOf reuse: a visit stamp (one mark per walk), a stack,
+ *  and which nodes are free variables. */
+const walks = new WeakMap<GraphFacts, { seen: Int32Array; stack: Int32Array; free: Uint8Array; epoch: number }>();
+
+function walkOf(f: GraphFacts): { seen: Int32Array; stack: Int32Array; free: Uint8Array; epoch: number } {
+  let w = walks.get(f);
+  if (!w) {
+    const size = f.g.nodes.length;
+    const free = new Uint8Array(size);
+    for (const id of f.free) free[id] = 1;
+    walks.set(f, (w = { seen: new Int32Array(size), stack: new Int32Array(size), free, epoch: 0 }));
+  }
+  return w;
 }
 
 /** Nodes whose value feeds a state signal (the logic inside loops and in front of them). */
