@@ -1,6 +1,7 @@
-// The development grid of the falling-edge model in src/electrical/timing.ts (not a test): the
-// circuits the model was worked out against, kept apart from the check grids in
-// timing.ngspice.test.ts and fast.ngspice.test.ts, which were not used to tune it.
+// The development grid of the switching models in src/electrical/timing.ts, both edges (not a
+// test): the circuits the models are worked out against, kept apart from the check grids in
+// timing.ngspice.test.ts and fast.ngspice.test.ts (see their headers for which grid checks the
+// model as it stands and which are regression cases).
 // Run: npx tsx test/electrical/timing-dev-grid.ts   (prints estimate/ngspice ratios;
 // GW_ONLY=nor-cap,nand-fast runs those cells' cases)
 import { CELLS } from "../../src/cells/registry.js";
