@@ -476,6 +476,16 @@ export function cellTiming(t: TimingInputs): CellTiming {
   const vtNpn = (npn.NF ?? 1) * BOLTZMANN_OVER_Q * (d.tempC + 273.15);
   const vDroop = cBaseHeld > 0 && iRc50 > 0 && iCs > iRc50 ? vtNpn * Math.log(iCs / iRc50) : 0;
   const cDroop = v50 > vOL ? (cBaseHeld * vDroop) / (v50 - vOL) : 0;
+  // The transistor conducts again well before its base is back where it started: within
+  // V_T·ln(I/I_C) of it, it takes half of R_C's current at the 50 % point and holds the rise back
+  // (ngspice: the base stopping some 30–60 mV short, a slow rise). A shortfall inside that band is
+  // not spare. The band is reckoned from V_BE at 1 mA for a saturated transistor, from its on
+  // current for a clamped one (held active: ngspice shows it 58 mV below its starting level at
+  // 4.5 mA on one development circuit).
+  const band = iRc50 > 0 ? Math.max(0, vtNpn * Math.log((su?.clamp ? iCs : TYPICAL_TRANSISTOR_AMPS) / (iRc50 / 2))) : 0;
+  // The base side the capacitor's charge is taken from: the capacitance held on the base and the
+  // emitter junction.
+  const cSide = cBaseHeld + je.mean(0, vBE);
   // The rising edge with the capacitor taking the charge qSuX.
   const rising = (qSuX: number): { ts: number; tDecay: number; tRise: number; total: number } => {
     let ts: number;
@@ -485,19 +495,11 @@ export function cellTiming(t: TimingInputs): CellTiming {
     // already be beneath the level at which the transistor carries R_C's current at the 50 %
     // point (ngspice: the base then rising, not sinking, through the rise).
     let shortfall = 0;
-    // The transistor conducts again well before its base is back where it started: within
-    // V_T·ln(I/I_C) of it, it takes half of R_C's current at the 50 % point and holds the rise
-    // back (ngspice: the base stopping some 30–60 mV short, a slow rise). A shortfall inside that
-    // band is not spare. The band is reckoned from V_BE at 1 mA for a saturated transistor, from
-    // its on current for a clamped one (held active: ngspice shows it 58 mV below its starting
-    // level at 4.5 mA on one development circuit).
-    const bandFrom = (iFrom: number): number => (iRc50 > 0 ? Math.max(0, vtNpn * Math.log(iFrom / (iRc50 / 2))) : 0);
-    const cSide = cBaseHeld + je.mean(0, vBE);
     if (su?.clamp) {
       // A clamped transistor holds no stored charge: the capacitor's charge is spare but for the
       // band.
       ts = 0;
-      qSpare = Math.max(0, qOff + qSuX - cSide * bandFrom(iCs));
+      qSpare = Math.max(0, qOff + qSuX - cSide * band);
       shortfall = (qOff + qSuX) / cSide;
     } else if (qSuX > 0) {
       // The capacitor pulls the base down at once, and the collector with it: the saturated
@@ -531,7 +533,7 @@ export function cellTiming(t: TimingInputs): CellTiming {
         // below its level by what the pull-up has not returned yet (less the band).
         ts = tDrained;
         shortfall = Math.max(0, qRefill - iJunction * tDrained) / cSide;
-        qSpare = Math.max(0, qRefill - iJunction * tDrained - cSide * bandFrom(TYPICAL_TRANSISTOR_AMPS));
+        qSpare = Math.max(0, qRefill - iJunction * tDrained - cSide * band);
       }
     } else {
       // The level-shift diodes' recovery charge comes off the stored charge at once.

@@ -404,11 +404,10 @@ export function rebuildWith(g: LogicGraph, stateNames: readonly string[], replac
   const scratch = new OperandLists();
   const build = (root: number) => {
     if (map[root]! >= 0) return;
-    let sp = 0;
     stackId[0] = root;
     stackNext[0] = 0;
     stackDeps[0] = deps(root);
-    sp = 1;
+    let sp = 1;
     state[root] = 1;
     while (sp > 0) {
       const top = sp - 1;
