@@ -57,6 +57,10 @@ export interface OptimizeResult {
   graph: LogicGraph;
   report: OptimizationReport;
   diagnostics: Diagnostic[];
+  /** Present when the passes did not depend on the cell families (level 0, or a large design
+   *  priced by the structural estimate): the same optimization for other families, priced by
+   *  mapping onto them without running the passes again. */
+  forCells?: (cells: CellChoice) => OptimizeResult;
 }
 
 /** Most notes turned into diagnostics (the report keeps them all). */
@@ -102,19 +106,54 @@ function structureKey(x: LogicGraph): string {
 }
 
 export function optimizeDesign(g: LogicGraph, opts: OptimizeOptions): OptimizeResult {
-  const level: OptLevel = opts.level ?? 2;
-  const model = opts.costModel ?? dtlCostModel();
-  const target: MappingTarget = {
+  const run = runPasses(g, opts);
+  const finish = (cells: CellChoice): OptimizeResult => {
+    const result = priceResult(g, opts, run, cells);
+    // The passes did not look at the cell families (level 0, or a large design priced by the
+    // structural estimate): a mapping onto other families needs only the pricing again.
+    if (run.familyFree) result.forCells = finish;
+    return result;
+  };
+  return finish(opts.cells ?? "mixed");
+}
+
+/** What the passes leave: the graph they reached, their records and notes, before the result is
+ *  priced by mapping onto the chosen cell families. */
+interface PassRun {
+  level: OptLevel;
+  model: CostModel;
+  /** The graph the passes reached (the large design's may still be dropped when priced). */
+  reached: LogicGraph;
+  large: boolean;
+  largeAbove: number;
+  passes: PassRecord[];
+  notes: OptimizationNote[];
+  counts: ReturnType<typeof emptyTwoLevelCounts>;
+  diagnostics: Diagnostic[];
+  /** True when nothing the passes did depended on the cell families. */
+  familyFree: boolean;
+  /** Prices by mapping onto the options' cell families, as the passes used them (absent when
+   *  the passes priced structurally). */
+  tallyOf?: (x: LogicGraph) => PartTally;
+  before?: PartTally;
+}
+
+function mappingTarget(opts: OptimizeOptions, model: CostModel, cells: CellChoice): MappingTarget {
+  return {
     stateNames: opts.stateNames,
     maxFanin: opts.maxFanin,
-    cells: opts.cells ?? "mixed",
+    cells,
     model,
     maxFanout: opts.maxFanout ?? DEFAULT_MAX_FANOUT,
     wiredAnd: !!opts.wiredAnd,
   };
-  // Prices by graph structure: passes often rebuild a graph they have seen before.
+}
+
+/** Prices by graph structure, for one mapping target: passes often rebuild a graph they have
+ *  seen before. */
+function tallyCache(target: MappingTarget): (x: LogicGraph) => PartTally {
   const cache = new Map<string, PartTally>();
-  const tallyOf = (x: LogicGraph): PartTally => {
+  return (x: LogicGraph): PartTally => {
     const key = structureKey(x);
     const hit = cache.get(key);
     if (hit !== undefined) return hit;
@@ -123,8 +162,11 @@ export function optimizeDesign(g: LogicGraph, opts: OptimizeOptions): OptimizeRe
     cache.set(key, t);
     return t;
   };
-  const cost = (x: LogicGraph) => tallyOf(x).cost;
-  const before = tallyOf(g);
+}
+
+function runPasses(g: LogicGraph, opts: OptimizeOptions): PassRun {
+  const level: OptLevel = opts.level ?? 2;
+  const model = opts.costModel ?? dtlCostModel();
   const notes: OptimizationNote[] = [];
   const counts = emptyTwoLevelCounts();
   const passes: PassRecord[] = [];
@@ -151,14 +193,18 @@ export function optimizeDesign(g: LogicGraph, opts: OptimizeOptions): OptimizeRe
   const largeAbove = opts.largeDesignNodes ?? LARGE_DESIGN_NODES;
   const workPerPass = opts.workPerPass ?? WORK_PER_PASS;
   const large = level >= 1 && g.nodes.length > largeAbove;
-  const price = large ? (x: LogicGraph) => structuralCost(x, opts.stateNames) : cost;
+  const familyFree = level === 0 || large;
+  if (level === 0) return { level, model, reached: g, large, largeAbove, passes, notes, counts, diagnostics, familyFree };
+  const tallyOf = large ? undefined : tallyCache(mappingTarget(opts, model, opts.cells ?? "mixed"));
+  const before = tallyOf?.(g);
+  const price = tallyOf ? (x: LogicGraph) => tallyOf(x).cost : (x: LogicGraph) => structuralCost(x, opts.stateNames);
   const ctx: PassContext = { stateNames: opts.stateNames, cost: price, notes, counts, dontCares: use.usable };
   const baseLimits = { ...DEFAULT_OPTIMIZE_LIMITS, ...(opts.limits ?? {}) };
   let budgetNoted = false;
   const leftOut: string[] = [];
 
   let cur = g;
-  let curCost = large ? price(g) : before.cost;
+  let curCost = before ? before.cost : price(g);
   const evaluationsFor = (x: LogicGraph) => Math.max(MIN_EVALUATIONS, Math.min(baseLimits.maxEvaluations, Math.floor(workPerPass / Math.max(1, x.nodes.length))));
   const step = (pass: string, run: (x: LogicGraph) => LogicGraph, acceptEqual = false) => {
     const evaluations = evaluationsFor(cur);
@@ -211,6 +257,20 @@ export function optimizeDesign(g: LogicGraph, opts: OptimizeOptions): OptimizeRe
       message: `a large design (${cur.nodes.length} nodes): ${leftOut.join(", ")} left out (each could price fewer than ${SEARCH_MIN_EVALUATIONS} candidates in the whole graph); the local passes ran in full`,
     });
   }
+  return { level, model, reached: cur, large, largeAbove, passes, notes, counts, diagnostics, familyFree, ...(tallyOf ? { tallyOf } : {}), ...(before ? { before } : {}) };
+}
+
+/** The passes' result priced by mapping onto `cells` (for the run's own families when the passes
+ *  priced by mapping), the large design's keep-or-drop decision, the report. */
+function priceResult(g: LogicGraph, opts: OptimizeOptions, run: PassRun, cells: CellChoice): OptimizeResult {
+  const { level, model, large, largeAbove } = run;
+  const target = mappingTarget(opts, model, cells);
+  const tallyOf = run.tallyOf ?? tallyCache(target);
+  const before = run.before ?? tallyOf(g);
+  const notes = [...run.notes];
+  const diagnostics = [...run.diagnostics];
+  const file = g.file !== undefined ? { file: g.file } : {};
+  let cur = run.reached;
   let after = level === 0 ? before : tallyOf(cur);
   if (large) {
     const kept = cur === g || after.cost <= before.cost;
@@ -237,9 +297,9 @@ export function optimizeDesign(g: LogicGraph, opts: OptimizeOptions): OptimizeRe
     mapping: { cells: target.cells, maxFanin: target.maxFanin, maxFanout: target.maxFanout, wiredAnd: target.wiredAnd },
     before,
     after,
-    passes,
+    passes: [...run.passes],
     notes,
-    twoLevel: counts,
+    twoLevel: { ...run.counts },
   };
   return { graph: cur, report, diagnostics };
 }

@@ -131,9 +131,11 @@ export function synthesize(text: string, file: string, opts: SynthesisOptions): 
     // blocks it (a dozen more sizings, minutes on a large design); that search runs only when
     // the NAND-only mapping fails as well.
     const fallback = opts.cells === "mixed" && !opts.cellsGiven;
+    const reoptimize = (cells: CellChoice) => opt.forCells?.(cells) ?? optimizeDesign(g, { stateNames: keptNames, maxFanin: opts.maxFanin, level: opts.opt ?? 2, cells, ...mapExtras });
     const attempt = (cells: CellChoice, quickFailure = false) => {
-      // Other families than the optimizer priced for: optimize again for them.
-      const again = cells === opts.cells ? undefined : optimizeDesign(g, { stateNames: keptNames, maxFanin: opts.maxFanin, level: opts.opt ?? 2, cells, ...mapExtras });
+      // Other families than the optimizer priced for: optimize again for them (only priced
+      // again when the passes did not depend on the families).
+      const again = cells === opts.cells ? undefined : reoptimize(cells);
       const m = mapToCells(again?.graph ?? optimized, { stateNames: keptNames, maxFanin: opts.maxFanin, cells, ...mapExtras });
       return { mapped: m, sized: m.value ? sizeDesign(m.value, quickFailure ? { ...opts.sizing, quickFailure } : opts.sizing) : undefined, report: again?.report ?? opt.report };
     };
@@ -160,7 +162,7 @@ export function synthesize(text: string, file: string, opts: SynthesisOptions): 
     out.optimizationReport = { ...report, after: tallyParts(netlist, costModel) };
     if (netlist.cells.some((c) => c.tiedOutput)) {
       const cellsUsed = report.mapping.cells;
-      const graphUsed = report === opt.report ? optimized : optimizeDesign(g, { stateNames: keptNames, maxFanin: opts.maxFanin, level: opts.opt ?? 2, cells: cellsUsed, ...mapExtras }).graph;
+      const graphUsed = report === opt.report ? optimized : reoptimize(cellsUsed).graph;
       const plain = mapToCells(graphUsed, { stateNames: keptNames, maxFanin: opts.maxFanin, cells: cellsUsed, ...mapExtras, wiredAnd: false });
       if (plain.value) out.optimizationReport.afterWithoutWiredAnd = tallyParts(plain.value, costModel);
     }

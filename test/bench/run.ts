@@ -173,7 +173,10 @@ async function child(job: Job): Promise<void> {
     // synthesize() does when it has the NAND fallback.
     let sized = time("size", () => sizeDesign(mapped.value!, { ...sizing, quickFailure: true }));
     if (!sized.value && sized.diagnostics.some((d) => d.code === "GW5001")) {
-      mapped = time("map", () => mapToCells(opt.graph, { stateNames: front.keptNames, maxFanin: 8, cells: "nand", ...mapExtras }), "NAND fallback");
+      // synthesize() optimizes again for NAND cells: only priced again when the passes did not
+      // depend on the families (a large design, or level 0).
+      const nandOpt = time("optimize", () => opt.forCells?.("nand") ?? optimizeDesign(g, { stateNames: front.keptNames, maxFanin: 8, level, cells: "nand", ...mapExtras }), "NAND fallback");
+      mapped = time("map", () => mapToCells(nandOpt.graph, { stateNames: front.keptNames, maxFanin: 8, cells: "nand", ...mapExtras }), "NAND fallback");
       sized = time("size", () => sizeDesign(mapped.value!, sizing), "NAND fallback");
     }
     if (!sized.value) return fail("size", sized.diagnostics.map((d) => d.message).join("; "));
@@ -307,7 +310,7 @@ function runJob(job: Job, jobCapMs: number, extraNodeArgs: string[] = []): Promi
         }
         if (msg.t === "stage") {
           const s = msg as unknown as StageLine;
-          // A NAND fallback's second map and size add to the first.
+          // A NAND fallback's second optimize, map and size add to the first.
           const list = result.times.get(s.stage) ?? [];
           const cpuList = result.cpu.get(s.stage) ?? [];
           if (list.length === s.rep + 1) {
@@ -322,7 +325,10 @@ function runJob(job: Job, jobCapMs: number, extraNodeArgs: string[] = []): Promi
           result.stagePeakMB.set(s.stage, Math.max(result.stagePeakMB.get(s.stage) ?? 0, s.rssMB));
           const following = nextStage(s.stage);
           if (following !== s.stage && !result.stageStartMB.has(following)) result.stageStartMB.set(following, s.rssMB);
-          if (s.note) result.notes.set(s.stage, s.note);
+          if (s.note) {
+            const had = result.notes.get(s.stage);
+            result.notes.set(s.stage, !had ? s.note : had.split(", ").includes(s.note) ? had : `${had}, ${s.note}`);
+          }
           result.runs = Math.max(result.runs, s.rep + 1);
           result.peakRssMB = Math.max(result.peakRssMB, s.rssMB);
           lastStage = s.stage;

@@ -47,4 +47,25 @@ describe("large designs", () => {
     expect(r.report.notes.some((n) => n.message.includes("priced by a structural estimate"))).toBe(false);
     expect(checkEquivalence(g, r.graph, { stateNames: [] }).equivalent).toBe(true);
   });
+
+  // The NAND-only fallback of synthesize() takes the mixed run's passes when they did not look
+  // at the cell families. The shortcut must give what a whole second run gives.
+  it("priced again for other families: the same graph, report and diagnostics as a second run", () => {
+    for (const extra of [{ largeDesignNodes: 100 }, { level: 0 as const }]) {
+      const mixed = optimizeDesign(g, { ...opts, ...extra });
+      expect(mixed.forCells).toBeDefined();
+      const again = mixed.forCells!("nand");
+      const fresh = optimizeDesign(g, { ...opts, ...extra, cells: "nand" });
+      expect(again.graph).toEqual(fresh.graph);
+      expect(again.report).toEqual(fresh.report);
+      expect(again.diagnostics).toEqual(fresh.diagnostics);
+      expect(again.report.mapping.cells).toBe("nand");
+      // The prices are the NAND mapping's, not the mixed one's.
+      expect(again.report.before).not.toEqual(mixed.report.before);
+    }
+  });
+
+  it("below the threshold the passes priced by mapping onto the families: no shortcut", () => {
+    expect(optimizeDesign(g, opts).forCells).toBeUndefined();
+  });
 });
