@@ -704,11 +704,9 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
   // a part (value, text, rating, warnings) depends only on its cell's situation: it is worked
   // out once per situation, at the situation's first cell (so warnings come in cell order), and
   // each cell copies it with its own designator.
-  const counters: Record<string, number> = { R: 0, D: 0, Q: 0, C: 0 };
   const instances: SizedInstance[] = [];
-  const components: Component[] = [];
   const ratingWarned = new Set<string>();
-  const partsBySit: { kinds: Component["kind"][]; names: string[]; parts: Component[] }[] = [];
+  const partsBySit: SituationParts[] = [];
   const partsOf = (si: number): (typeof partsBySit)[number] => {
     const known = partsBySit[si];
     if (known) return known;
@@ -716,7 +714,7 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
     const values = sized.valuesBySituation[si]!;
     const topo = topologyOf(s);
     const st = stressesBySit[si]!;
-    const made: (typeof partsBySit)[number] = { kinds: [], names: [], parts: [] };
+    const made: SituationParts = { kinds: [], names: [], parts: [], perKind: [0, 0, 0, 0] };
     for (const comp of topo.components) {
       const stress = st.get(comp.name);
       let part: Component;
@@ -801,42 +799,46 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
         }
       }
       made.kinds.push(comp.kind);
+      made.perKind[KIND_SLOT[comp.kind]]!++;
       made.names.push(comp.name);
       made.parts.push(part);
     }
     partsBySit[si] = made;
     return made;
   };
-  for (const cell of netlist.cells) {
-    const si = sized.byCell[cell.index]!;
-    const { kinds, names, parts } = partsOf(si);
-    const designators: Record<string, string> = {};
-    for (let k = 0; k < parts.length; k++) {
-      const kind = kinds[k]!;
-      const des = `${kind}${(counters[kind] = (counters[kind] ?? 0) + 1)}`;
-      designators[names[k]!] = des;
-      const c = { ...parts[k]! };
-      c.designator = des;
-      c.instance = cell.index;
-      components.push(c);
-    }
-    instances.push({ cell: cell.index, cellType: typeOfCell[cell.index]!, designators, analysis: analyses[si]! });
-  }
-
-  // Totals.
+  // Each cell's parts are numbered on from where the cells before it left off: a cell keeps the
+  // first number of each kind, and its designators and parts are worked out when read, so a large
+  // design holds four numbers a cell rather than a string and an object a part.
+  const firsts = new Int32Array(netlist.cells.length * 4);
+  const counters = [0, 0, 0, 0];
   let pWorst = 0;
   let iWorst = 0;
   let pNom = 0;
   let iNom = 0;
-  for (const inst of instances) {
-    const a = inst.analysis;
+  const distinctOhms = new Set<number>();
+  let schottkyUsed = false;
+  for (const cell of netlist.cells) {
+    const si = sized.byCell[cell.index]!;
+    const made = partsOf(si);
+    for (let k = 0; k < 4; k++) {
+      firsts[cell.index * 4 + k] = counters[k]! + 1;
+      counters[k]! += made.perKind[k]!;
+    }
+    if (!made.counted) {
+      made.counted = true;
+      for (const part of made.parts) {
+        if (part.kind === "R") distinctOhms.add(part.value);
+        if (part.kind === "D" && part.role === "DSC") schottkyUsed = true;
+      }
+    }
+    const a = analyses[si]!;
+    instances.push(new PlacedInstance(cell.index, typeOfCell[cell.index]!, a, made, firsts));
+    // Totals.
     pWorst += Math.max(a.powerLowWatts, a.powerHighWatts);
     iWorst += a.supplyCurrentAmps;
     pNom += (a.nominal.powerLowWatts + a.nominal.powerHighWatts) / 2;
     iNom += (a.nominal.supplyCurrentLowAmps + a.nominal.supplyCurrentHighAmps) / 2;
   }
-  const count = (k: string): number => components.filter((c) => c.kind === k).length;
-  const distinct = new Set(components.filter((c) => c.kind === "R").map((c) => c.value)).size;
 
   // Timing and the critical path.
   const delays = instances.map((i) => ({ fall: i.analysis.timing?.tPHLSeconds ?? 0, rise: i.analysis.timing?.tPLHSeconds ?? 0 }));
@@ -883,20 +885,22 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
   const design: SizedDesign = {
     netlist,
     parameters: o.parameters,
-    models: { diode: o.devices.diode, npn: o.devices.npn, ...(components.some((c) => c.kind === "D" && c.role === "DSC") ? { schottky: (o.devices.schottky ?? DEFAULT_SCHOTTKY).card } : {}) },
+    models: { diode: o.devices.diode, npn: o.devices.npn, ...(schottkyUsed ? { schottky: (o.devices.schottky ?? DEFAULT_SCHOTTKY).card } : {}) },
     cellTypes,
     instances,
-    components,
+    get components(): Component[] {
+      return componentsOf(instances);
+    },
     totals: {
       staticPowerWatts: pWorst,
       supplyCurrentAmps: iWorst,
       staticPowerNominalWatts: pNom,
       supplyCurrentNominalAmps: iNom,
-      transistors: count("Q"),
-      diodes: count("D"),
-      resistors: count("R"),
-      capacitors: count("C"),
-      distinctResistorValues: distinct,
+      transistors: counters[KIND_SLOT.Q]!,
+      diodes: counters[KIND_SLOT.D]!,
+      resistors: counters[KIND_SLOT.R]!,
+      capacitors: counters[KIND_SLOT.C]!,
+      distinctResistorValues: distinctOhms.size,
     },
     mode: o.mode,
     series: o.series,
@@ -907,6 +911,79 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
   };
   if (path) design.criticalPath = path;
   return design;
+}
+
+/** Part kinds in the order of a cell's four numbering counters. */
+const KIND_SLOT = { R: 0, D: 1, Q: 2, C: 3 } as const satisfies Record<Component["kind"], number>;
+const SLOT_KIND: Component["kind"][] = ["R", "D", "Q", "C"];
+
+/** The parts of the cells of one situation, without designators: the kinds and local names in
+ *  role order, each part as it goes on the list, and how many of each kind. */
+interface SituationParts {
+  kinds: Component["kind"][];
+  names: string[];
+  parts: Component[];
+  /** Parts of each kind, in KIND_SLOT order. */
+  perKind: [number, number, number, number];
+  /** True once its resistor values and clamp diodes are counted in the design's figures. */
+  counted?: boolean;
+}
+
+/** A placed cell. Its designators are a pure function of its situation's parts and the first
+ *  number of each kind it was given, worked out when read. */
+class PlacedInstance implements SizedInstance {
+  readonly #parts: SituationParts;
+  readonly #firsts: Int32Array;
+  constructor(
+    public cell: number,
+    public cellType: number,
+    public analysis: CellAnalysis,
+    parts: SituationParts,
+    firsts: Int32Array,
+  ) {
+    this.#parts = parts;
+    this.#firsts = firsts;
+  }
+  get designators(): Record<string, string> {
+    const out: Record<string, string> = {};
+    this.eachPart((name, designator) => (out[name] = designator));
+    return out;
+  }
+  /** Each part's local name, designator and list entry (shared between cells alike: copy it
+   *  before changing it). */
+  eachPart(f: (name: string, designator: string, part: Component) => void): void {
+    const { kinds, names, parts } = this.#parts;
+    const next = [0, 0, 0, 0];
+    const base = this.cell * 4;
+    for (let k = 0; k < kinds.length; k++) {
+      const slot = KIND_SLOT[kinds[k]!];
+      f(names[k]!, `${SLOT_KIND[slot]}${this.#firsts[base + slot]! + next[slot]!++}`, parts[k]!);
+    }
+  }
+}
+
+/** The parts list of placed cells, in cell order and each cell's role order. */
+function componentsOf(instances: readonly SizedInstance[]): Component[] {
+  const out: Component[] = [];
+  for (const inst of instances)
+    (inst as PlacedInstance).eachPart((_name, designator, part) => out.push({ ...part, designator, instance: inst.cell }));
+  return out;
+}
+
+/**
+ * Each part of a sized design in parts-list order (design.components) without building the
+ * list: `part` is shared between the cells alike and carries no designator or cell of its own
+ * (they are the arguments); it must not be changed.
+ */
+export function eachComponent(design: SizedDesign, f: (part: Component, designator: string, cell: number) => void): void {
+  for (const inst of design.instances) {
+    if (inst instanceof PlacedInstance) inst.eachPart((_name, designator, part) => f(part, designator, inst.cell));
+    else {
+      // Instances not placed by assemble (built by hand): the list as given.
+      for (const c of design.components) f(c, c.designator, c.instance);
+      return;
+    }
+  }
 }
 
 /** The parts a cell is built from: its kind's topology, without R_C for a tied cell. */
@@ -1570,7 +1647,7 @@ export function sizeDesign(netlist: CellNetlist, options: SizingOptions): StageR
     notes.push(`Each gate was held to ${fmt(uFinal.gateDelayMaxSeconds * 1e9)} ns so that the longest path meets ${fmt(o.pathDelayMaxSeconds * 1e9)} ns.`);
   }
   const design = assemble(netlist, uFinal, sized, diagnostics, notes, false);
-  if (uFinal.plan?.capFarads !== undefined && design.components.some((c) => c.kind === "C")) {
+  if (uFinal.plan?.capFarads !== undefined && design.totals.capacitors > 0) {
     design.parameters = [
       ...design.parameters,
       { name: "capacitorSeries", label: `Capacitor series ${o.capacitorSeries}`, value: seriesMantissas(o.capacitorSeries).length, unit: "values/decade", source: options.capacitorSeries !== undefined ? "user" : "default" },

@@ -1,6 +1,7 @@
 // The parts list: one line per distinct part and value, in the order parts lists usually run
 // (resistors, capacitors, diodes, transistors), with compressed designator ranges.
 import type { SizedDesign } from "../electrical/types.js";
+import { eachComponent } from "../electrical/size.js";
 import { compareDesignators, designatorRanges, eng, numberRanges } from "./format.js";
 import { csvField, renderTo } from "./render.js";
 import type { TextSink } from "./output.js";
@@ -67,7 +68,7 @@ function makeBomRows(design: SizedDesign): BomRow[] {
     Object.is(a.tolerance, b.tolerance) &&
     Object.is(a.powerRatingWatts, b.powerRatingWatts) &&
     Object.is(a.voltageRatingVolts, b.voltageRatingVolts);
-  for (const c of design.components) {
+  eachComponent(design, (c, designator) => {
     let seen = seenByValue.get(c.value);
     if (!seen) seenByValue.set(c.value, (seen = []));
     let group: Group | undefined;
@@ -90,8 +91,8 @@ function makeBomRows(design: SizedDesign): BomRow[] {
       // Bounded: past a few raw combinations a value, each part is grouped by its texts alone.
       if (seen.length < 16) seen.push({ c, group });
     }
-    group.designators.push(c.designator);
-  }
+    group.designators.push(designator);
+  });
   for (const t of tiesOf(design)) {
     groupOf({
       kind: "R",

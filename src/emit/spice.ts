@@ -2,6 +2,7 @@
 // the sections that grow with the design (instances, ties, input drivers, steps) written line
 // by line to the output (see render.ts).
 import type { SizedDesign } from "../electrical/types.js";
+import { eachComponent } from "../electrical/size.js";
 import { eng, parameterText, spiceNumber, spiceParam } from "./format.js";
 import { renderTo } from "./render.js";
 import { SpiceNamer } from "./spice-names.js";
@@ -105,7 +106,9 @@ export function tiesOf(design: SizedDesign): Tie[] {
 function findTies(design: SizedDesign): Tie[] {
   const ties: Tie[] = [];
   let next = 0;
-  for (const c of design.components) if (c.kind === "R") next++;
+  eachComponent(design, (c) => {
+    if (c.kind === "R") next++;
+  });
   for (const net of design.netlist.nets) {
     if (net.driver.kind !== "tie") continue;
     if (net.loads.length === 0 && net.outputPort === undefined) continue;

@@ -1,7 +1,7 @@
 // sizeDesign: Millman & Halkias Example 6-5 reproduced with forced values, supply changes that
 // keep designators, infeasible requests.
 import { describe, expect, it } from "vitest";
-import { sizeDesign } from "../../src/electrical/size.js";
+import { eachComponent, sizeDesign } from "../../src/electrical/size.js";
 import { c17, fanoutNet, netlistOf } from "./fixtures.js";
 
 // One NAND-2 driving `n` NAND-2 loads, sized at exactly the book's conditions.
@@ -53,6 +53,19 @@ describe("sizing by search", () => {
     expect(da.totals).toMatchObject({ transistors: 6, diodes: 24, resistors: 18, capacitors: 0 });
     expect(da.instances[0]!.designators).toEqual({ DIN1: "D1", DIN2: "D2", RP: "R1", DLS1: "D3", DLS2: "D4", RB: "R2", RC: "R3", Q1: "Q1" });
     expect(da.instances[5]!.designators.RC).toBe("R18");
+    // The parts list, the cells' designators and the totals tell the same story: every part of
+    // cell U(k+1) is on the list once, in cell order, numbered on from the cells before it.
+    const listed = da.components;
+    const walked: string[] = [];
+    eachComponent(da, (part, designator, cell) => {
+      walked.push(`${cell}:${designator}:${part.kind}:${part.value}`);
+    });
+    expect(walked).toEqual(listed.map((c) => `${c.instance}:${c.designator}:${c.kind}:${c.value}`));
+    expect(listed.map((c) => c.designator).sort()).toEqual(da.instances.flatMap((i) => Object.values(i.designators)).sort());
+    for (const [kind, total] of [["Q", da.totals.transistors], ["D", da.totals.diodes], ["R", da.totals.resistors]] as const) {
+      const numbers = listed.filter((c) => c.kind === kind).map((c) => Number(c.designator.slice(1)));
+      expect(numbers).toEqual(Array.from({ length: total }, (_, k) => k + 1));
+    }
     // 12 V carries the high-supply caution, 5 V does not.
     expect(b.diagnostics.some((d) => d.code === "GW5003")).toBe(true);
     expect(a.diagnostics.some((d) => d.code === "GW5003")).toBe(false);
