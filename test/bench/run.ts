@@ -20,7 +20,9 @@
 // Each design runs in a child process of its own (so its peak memory is its own, and a stage
 // that runs away can be stopped): the child runs the stages in the order synthesize() runs them
 // (src/pipeline/synthesize.ts) and reports each stage's time as it finishes; the parent samples
-// the child's resident memory from /proc every 50 ms and stops it at the job cap.
+// the child's resident memory from /proc every 50 ms and stops it at the job cap. The child runs
+// with the heap the command would use for the design (src/cli/heap.ts: a larger young
+// generation for input files of a megabyte or more).
 //
 // Time caps. A stage outside the target path (equivalence check, testbench stimulus,
 // optimization) that takes longer than the stage cap on one size runs reduced on the larger sizes
@@ -33,6 +35,7 @@ import { readFileSync, existsSync, mkdtempSync, readdirSync, rmSync, statSync } 
 import { cpus, loadavg, tmpdir, totalmem } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
+import { LARGE_INPUT_BYTES, YOUNG_GENERATION_FLAG } from "../../src/cli/heap.js";
 import { arrayMultiplier, carryLookaheadAdder, inverterChain, randomNetwork, rippleCarryAdder } from "./designs.js";
 
 const HERE = fileURLToPath(new URL(".", import.meta.url));
@@ -274,7 +277,10 @@ function runJob(job: Job, jobCapMs: number, extraNodeArgs: string[] = []): Promi
   const result: JobResult = { job, gates: gateCount(text), times: new Map(), cpu: new Map(), stagePeakMB: new Map(), stageStartMB: new Map(), notes: new Map(), peakRssMB: 0, runs: 0, info: {}, wallMs: 0 };
   const t0 = performance.now();
   return new Promise((resolve) => {
-    const proc = spawn(process.execPath, ["--expose-gc", ...extraNodeArgs, "--import", TSX_LOADER, fileURLToPath(import.meta.url), "--child", JSON.stringify(job)], {
+    // The heap the command would run this design with (src/cli/bin.ts starts itself again with a
+    // larger young generation for large input files).
+    const heap = Buffer.byteLength(text, "utf8") >= LARGE_INPUT_BYTES ? [YOUNG_GENERATION_FLAG] : [];
+    const proc = spawn(process.execPath, ["--expose-gc", ...heap, ...extraNodeArgs, "--import", TSX_LOADER, fileURLToPath(import.meta.url), "--child", JSON.stringify(job)], {
       cwd: REPO,
       stdio: ["ignore", "pipe", "pipe"],
     });
