@@ -1,5 +1,6 @@
 // Quantities with units (mathjs units plus SPICE-style multipliers, IEC 60062 letter code).
 import { describe, expect, it } from "vitest";
+import * as math from "mathjs";
 import { parseQuantity } from "../../src/electrical/quantity.js";
 
 const ok = (text: string, dim: Parameters<typeof parseQuantity>[1]): number => {
@@ -65,5 +66,50 @@ describe("parseQuantity", () => {
     expect(err("five volts", "voltage")).toMatch(/expected a voltage/);
     expect(err("5 %", "voltage")).toMatch(/expected a voltage/);
     expect(err("lots", "ratio")).toMatch(/not a ratio/);
+  });
+});
+
+// The commonest unit texts are read without mathjs (src/electrical/quantity.ts, plainUnit); the
+// reference is mathjs itself (the registry's general-purpose units library), read the way
+// parseQuantity reads everything else.
+describe("unit texts read without mathjs", () => {
+  const units: [Parameters<typeof parseQuantity>[1], string][] = [
+    ["voltage", "V"],
+    ["current", "A"],
+    ["capacitance", "F"],
+    ["time", "s"],
+    ["frequency", "Hz"],
+    ["power", "W"],
+    ["resistance", "ohm"],
+  ];
+  const numbers = ["0", "5", "12", "4.75", ".5", "-3", "1e3", "2.2E-2", "60", "1000000", "0.047", "7."];
+  const prefixes = ["", "f", "p", "n", "u", "m", "k", "M", "G", "T"];
+  const cleanRef = (x: number) => (x === 0 ? 0 : Number(x.toPrecision(12)));
+
+  it("give mathjs's value for every number, prefix and unit", () => {
+    let checked = 0;
+    for (const [dim, base] of units)
+      for (const n of numbers)
+        for (const p of prefixes)
+          for (const space of ["", " "]) {
+            const text = `${n}${space}${p}${base}`;
+            const reference = cleanRef(math.unit(text).toNumber(base));
+            expect(ok(text, dim), text).toBe(reference);
+            checked++;
+          }
+    for (const n of numbers) {
+      expect(ok(`${n} degC`, "temperature")).toBe(cleanRef(math.unit(`${n} degC`).toNumber("degC")));
+      checked++;
+    }
+    expect(checked).toBe(units.length * numbers.length * prefixes.length * 2 + numbers.length);
+  });
+
+  it("leave every other text to mathjs: other units of the dimension, wrong dimensions", () => {
+    expect(ok("1 mV", "voltage")).toBeCloseTo(1e-3, 15);
+    expect(ok("2 min", "time")).toBe(120);
+    expect(ok("32 degF", "temperature")).toBeCloseTo(0, 9);
+    expect(err("5 V", "current")).toMatch(/is a voltage, but expected a current/);
+    // A prefix on degC is mathjs's to read (it takes it as a multiple: 5 kdegC is 5000 degC).
+    expect(ok("5 kdegC", "temperature")).toBe(math.unit("5 kdegC").toNumber("degC"));
   });
 });
