@@ -704,7 +704,7 @@ function assemble(netlist: CellNetlist, u: UniformEnv, sized: Sized, diagnostics
   // a part (value, text, rating, warnings) depends only on its cell's situation: it is worked
   // out once per situation, at the situation's first cell (so warnings come in cell order), and
   // each cell copies it with its own designator.
-  const instances: SizedInstance[] = [];
+  const instances: PlacedInstance[] = [];
   const ratingWarned = new Set<string>();
   const partsBySit: SituationParts[] = [];
   const partsOf = (si: number): (typeof partsBySit)[number] => {
@@ -963,10 +963,9 @@ class PlacedInstance implements SizedInstance {
 }
 
 /** The parts list of placed cells, in cell order and each cell's role order. */
-function componentsOf(instances: readonly SizedInstance[]): Component[] {
+function componentsOf(instances: readonly PlacedInstance[]): Component[] {
   const out: Component[] = [];
-  for (const inst of instances)
-    (inst as PlacedInstance).eachPart((_name, designator, part) => out.push({ ...part, designator, instance: inst.cell }));
+  for (const inst of instances) inst.eachPart((_name, designator, part) => out.push({ ...part, designator, instance: inst.cell }));
   return out;
 }
 
@@ -976,14 +975,12 @@ function componentsOf(instances: readonly SizedInstance[]): Component[] {
  * (they are the arguments); it must not be changed.
  */
 export function eachComponent(design: SizedDesign, f: (part: Component, designator: string, cell: number) => void): void {
-  for (const inst of design.instances) {
-    if (inst instanceof PlacedInstance) inst.eachPart((_name, designator, part) => f(part, designator, inst.cell));
-    else {
-      // Instances not placed by assemble (built by hand): the list as given.
-      for (const c of design.components) f(c, c.designator, c.instance);
-      return;
-    }
+  if (!design.instances.every((inst) => inst instanceof PlacedInstance)) {
+    // Instances not placed by assemble (built by hand): the list as given.
+    for (const c of design.components) f(c, c.designator, c.instance);
+    return;
   }
+  for (const inst of design.instances as PlacedInstance[]) inst.eachPart((_name, designator, part) => f(part, designator, inst.cell));
 }
 
 /** The parts a cell is built from: its kind's topology, without R_C for a tied cell. */

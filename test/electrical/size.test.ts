@@ -55,6 +55,8 @@ describe("sizing by search", () => {
     expect(da.instances[5]!.designators.RC).toBe("R18");
     // The parts list, the cells' designators and the totals tell the same story: every part of
     // cell U(k+1) is on the list once, in cell order, numbered on from the cells before it.
+    // Common practice: reference designators are a class letter (R, D, Q, C, as in IEEE 315,
+    // from memory) and a number running 1..N per letter, each used once.
     const listed = da.components;
     const walked: string[] = [];
     eachComponent(da, (part, designator, cell) => {
