@@ -22,6 +22,8 @@ export interface SearchResult {
   /** Feasible interval of the free parameter, as indices into the grid. */
   freeInterval?: [number, number];
   closest?: Closest;
+  /** With SearchSpec.keepCandidates and no fit: every failing candidate weighed, in order. */
+  candidates?: CellValues[];
   evaluations: number;
 }
 
@@ -44,6 +46,12 @@ function failingIds(m: Float64Array): string[] {
   return out.map((x) => x.id);
 }
 
+/** A candidate as the failure message describes it: its values, its least margin and the
+ *  constraints it fails, worst first. */
+export function closestOf(values: CellValues, e: TypeEval): Closest {
+  return { values: { ...values }, worstMargin: minMargin(e.margins), failing: failingIds(e.margins), margins: e.margins };
+}
+
 export interface SearchSpec {
   def: CellDefinition;
   situations: readonly Situation[];
@@ -54,6 +62,8 @@ export interface SearchSpec {
   fixed: CellValues;
   /** A known candidate to start from (its power prunes the search at once when it fits). */
   initial?: CellValues;
+  /** Return every failing candidate the search weighed (SearchResult.candidates). */
+  keepCandidates?: boolean;
 }
 
 /** Searches one cell kind. Pure; deterministic. */
@@ -72,11 +82,10 @@ export function searchCell(spec: SearchSpec): SearchResult {
   }
   let evaluations = 0;
   let closest: Closest | undefined;
+  const candidates: CellValues[] | undefined = spec.keepCandidates ? [] : undefined;
   const consider = (values: CellValues, e: TypeEval): void => {
-    const wm = minMargin(e.margins);
-    if (!closest || wm > closest.worstMargin) {
-      closest = { values: { ...values }, worstMargin: wm, failing: failingIds(e.margins), margins: e.margins };
-    }
+    candidates?.push({ ...values });
+    if (!closest || minMargin(e.margins) > closest.worstMargin) closest = closestOf(values, e);
   };
   // The search meets some value sets more than once (a quarter of its evaluations on a large
   // design: the free parameter's interval ends on a point its bisection has already
@@ -320,6 +329,7 @@ export function searchCell(spec: SearchSpec): SearchResult {
   if (!best) {
     const out: SearchResult = { evaluations };
     if (closest) out.closest = closest;
+    if (candidates) out.candidates = candidates;
     return out;
   }
   return { values: best.values, objectiveWatts: best.power, eval: best.e, freeInterval: [best.lo, best.hi], evaluations };

@@ -124,6 +124,19 @@ export function buildSituations(
   const collectors = collectorsOnNets(netlist);
   const overrideLoads: [string, number][] | undefined = opts.fanoutOverride === undefined ? undefined : heaviestAndType !== undefined ? [[heaviestAndType, opts.fanoutOverride]] : [];
   const overrideText = overrideLoads?.map(([t, c]) => `${t}:${c}`).join(",");
+  // Cells are grouped by a compact key of small numbers (the kind, the diode-AND load list and
+  // the pull-up's kind as indices); the readable key is written once per situation.
+  const kindIndex = new Map<CellDefinition, number>();
+  const listIndex = new Map<readonly [string, number][], number>();
+  const pullUpIndex = new Map<string | undefined, number>();
+  const indexIn = <K>(m: Map<K, number>, k: K): number => {
+    let i = m.get(k);
+    if (i === undefined) m.set(k, (i = m.size));
+    return i;
+  };
+  const codes: number[] = [];
+  /** Two UTF-16 units for a count of up to 2^32 − 1. */
+  const put = (x: number) => codes.push(x & 0xffff, x >>> 16);
   for (const cell of netlist.cells) {
     const def = defs[cell.index]!;
     const out = loading[cell.output]!;
@@ -163,15 +176,30 @@ export function buildSituations(
         inputWiredCollectors = Math.max(inputWiredCollectors, collectors[n]!);
         inputWiredAndLoads = Math.max(inputWiredAndLoads, loading[n]!.andLoads);
       }
-    const key = opts.group
-      ? `${def.id}|${fanin}|${andLoadsText}|${orLoads}|${loadPins}|${inputsSeeOrClamp ? 1 : 0}|${orDriveLoads}|${ownsPullUp ? "" : `tied:${pullUpCellId}`}/${tiedCollectors}/${inputWiredCollectors}/${inputWiredAndLoads}`
-      : `cell${cell.index}`;
-    let si = index.get(key);
+    let lookup: string;
+    if (opts.group) {
+      codes.length = 0;
+      put(indexIn(kindIndex, def));
+      put(fanin);
+      put(indexIn(listIndex, andLoadsByType));
+      put(orLoads);
+      put(loadPins);
+      put(inputsSeeOrClamp ? 1 : 0);
+      put(orDriveLoads);
+      put(ownsPullUp ? 0 : 1 + indexIn(pullUpIndex, pullUpCellId));
+      put(tiedCollectors);
+      put(inputWiredCollectors);
+      put(inputWiredAndLoads);
+      lookup = String.fromCharCode(...codes);
+    } else lookup = `cell${cell.index}`;
+    let si = index.get(lookup);
     if (si === undefined) {
       si = situations.length;
-      index.set(key, si);
+      index.set(lookup, si);
       situations.push({
-        key,
+        key: opts.group
+          ? `${def.id}|${fanin}|${andLoadsText}|${orLoads}|${loadPins}|${inputsSeeOrClamp ? 1 : 0}|${orDriveLoads}|${ownsPullUp ? "" : `tied:${pullUpCellId}`}/${tiedCollectors}/${inputWiredCollectors}/${inputWiredAndLoads}`
+          : lookup,
         def,
         fanin,
         cells: [],

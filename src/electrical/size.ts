@@ -15,6 +15,7 @@ import {
   CI,
   CONSTRAINTS,
   evaluateSituation,
+  evaluateType,
   mergeAnalyses,
   NC,
   type Corner,
@@ -23,7 +24,7 @@ import {
 import { resolveOptions, DEFAULTS, type ResolvedOptions } from "./options.js";
 import { baseHeldOff } from "./leakage.js";
 import { chooseResistorRating, formatRating } from "./ratings.js";
-import { chooseFree, coarseStep, lowerBoundWatts, maxRcOhms, searchCell, type Closest, type SearchSpec } from "./search.js";
+import { chooseFree, closestOf, coarseStep, lowerBoundWatts, maxRcOhms, searchCell, type Closest, type SearchSpec } from "./search.js";
 import { buildSituations, type Situation } from "./situations.js";
 import type {
   CellAnalysis,
@@ -108,6 +109,8 @@ interface UniformEnv {
   plan?: VariantPlan;
   /** SizingOptions.quickFailure: report a failure without searching for what blocks it. */
   quick?: boolean;
+  /** SizingOptions.fullSearch: no blockedKind shortcut. */
+  fullSearch?: boolean;
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -220,6 +223,70 @@ function uniformSituations(netlist: CellNetlist, defs: readonly CellDefinition[]
   return buildSituations(netlist, defs, { group: true, ...(u.o.fanoutOverride !== undefined ? { fanoutOverride: u.o.fanoutOverride } : {}), ...(u.wired === false ? { wired: false } : {}) });
 }
 
+/** A basic kind that no shared R_C lets be sized, found with one search instead of one search of
+ *  every kind at each R_C (sizeUniform's stage A, which on a large mixed design that cannot be
+ *  sized takes most of the failure's time).
+ *
+ *  The kind is searched over R_C as well, with the other kinds' diode-AND loads drawing no
+ *  current. Their current only adds to what the kind's transistor sinks, and that makes each
+ *  static constraint harder, never easier: the saturation margin β_min·I_B/(I_C + I_load), the
+ *  low output level, the base drive a diode-OR input needs (src/cells/nand, src/cells/nor). So a
+ *  kind that fails here fails at every R_C with any values of the other kinds. Applied only where
+ *  that holds: not with a delay budget (a heavier sink shortens the storage time, so the rise
+ *  can get faster), fast variants or wired-AND nets, which the full search handles.
+ *
+ *  The failure names a candidate the search weighed, as close as the full search's: each is
+ *  judged with the other kinds' loads at their provisional values (as stage A takes a kind not
+ *  sized yet), and the best one's margins are then worked out at its R_C with those kinds sized
+ *  there as stage A sizes them, so the message's shortfall is that of a real candidate. */
+/** Candidates blockedKind judges with the other kinds sized (a search of each kind before it
+ *  at each candidate's R_C). */
+const BLOCKED_CANDIDATES_JUDGED = 8;
+
+function blockedKind(u: UniformEnv, kinds: readonly CellDefinition[], sitsOf: ReadonlyMap<string, Situation[]>, situations: readonly Situation[]): Failure | undefined {
+  if (u.gateDelayMaxSeconds !== undefined || u.plan || situations.some((s) => s.tiedCollectors > 0 || !s.ownsPullUp || s.inputWiredCollectors > 1)) return undefined;
+  const none = new Map<string, CellValues>();
+  for (const [k, d] of kinds.entries()) {
+    const ctx = makeUniformCtx(u, d, none, none, {});
+    const exact = ctx.andLoadAmps;
+    ctx.andLoadAmps = (id, c, self, tol, env) => (id === d.id ? exact(id, c, self, tol, env) : 0);
+    const sits = sitsOf.get(d.id)!;
+    const r = searchCell({ def: d, situations: sits, ctx, grid: u.grid, fixed: capFixed(u, d), keepCandidates: true });
+    if (r.values) continue;
+    const failure: Failure = { def: d };
+    // Candidates: those the search weighed, and each R_C with the free parameter at either end
+    // (where the full search's closest candidates usually lie: a constraint the free parameter
+    // cannot mend fails there first). Ranked with the other kinds' loads at their provisional
+    // values; the best few are then judged with those kinds sized at their R_C.
+    const free = d.freeKey;
+    const candidates = [...(r.candidates ?? [])];
+    for (const rc of new Set(candidates.map((v) => v.rcOhms!)))
+      for (const end of [u.grid[0]!, u.grid[u.grid.length - 1]!]) candidates.push({ ...capFixed(u, d), rcOhms: rc, [free]: end });
+    const marginAt = (values: CellValues, chosen: Map<string, CellValues>) => closestOf(values, evaluateType(sits, values, makeUniformCtx(u, d, chosen, none, { sharedRcOhms: values.rcOhms! })));
+    const ranked = candidates.map((values) => ({ values, margin: marginAt(values, none).worstMargin })).sort((a, b) => b.margin - a.margin);
+    const sizedAt = new Map<number, Map<string, CellValues>>();
+    for (const { values } of ranked.slice(0, BLOCKED_CANDIDATES_JUDGED)) {
+      const rc = values.rcOhms!;
+      let chosen = sizedAt.get(rc);
+      if (!chosen) {
+        // The kinds before this one, sized at this R_C as stage A sizes them (stopping at the
+        // first that does not fit, whose loads then count at their provisional values, as there).
+        chosen = new Map<string, CellValues>();
+        for (const before of kinds.slice(0, k)) {
+          const at = searchCell({ def: before, situations: sitsOf.get(before.id)!, ctx: makeUniformCtx(u, before, chosen, none, { sharedRcOhms: rc }), grid: u.grid, fixed: { rcOhms: rc, ...capFixed(u, before) } });
+          if (!at.values) break;
+          chosen.set(before.id, at.values);
+        }
+        sizedAt.set(rc, chosen);
+      }
+      const c = marginAt(values, chosen);
+      if (!failure.closest || c.worstMargin > failure.closest.worstMargin) failure.closest = c;
+    }
+    return failure;
+  }
+  return undefined;
+}
+
 /** `situated`: the situations of these cells under `u` (uniformSituations), when the caller has
  *  them already; they are read, never changed. */
 function sizeUniform(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv, situated?: { situations: Situation[]; byCell: number[] }): Outcome {
@@ -235,6 +302,8 @@ function sizeUniform(netlist: CellNetlist, defs: CellDefinition[], u: UniformEnv
   const stageB = types.filter((d) => isFanoutVariant(d));
   const grid = u.grid;
   let provisional = new Map<string, CellValues>();
+  const blocked = stageA.length > 1 && !u.fullSearch ? blockedKind(u, stageA, sitsOf, situations) : undefined;
+  if (blocked) return { ok: false, failure: blocked };
 
   for (let pass = 0; pass < 3; pass++) {
     // Stage A: shared R_C outermost (high values first), each basic kind searched given it.
@@ -1530,7 +1599,7 @@ export function sizeDesign(netlist: CellNetlist, options: SizingOptions): StageR
     return { diagnostics };
   }
   const { corners, nominal } = buildCorners(o);
-  const u: UniformEnv = { o, corners, nominal, grid, ...(options.quickFailure ? { quick: true } : {}) };
+  const u: UniformEnv = { o, corners, nominal, grid, ...(options.quickFailure ? { quick: true } : {}), ...(options.fullSearch ? { fullSearch: true } : {}) };
   if (o.gateDelayMaxSeconds !== undefined) u.gateDelayMaxSeconds = o.gateDelayMaxSeconds;
 
   if (o.supplyVolts * (1 + o.supplyTolerance) > DEFAULTS.cautionSupplyVolts) {

@@ -75,6 +75,10 @@ export interface SizingOptions {
    *  constraint that blocks it and the best value reachable (a dozen more sizings). For callers
    *  with a fallback (the pipeline's NAND-only mapping), which explain only if it fails too. */
   quickFailure?: boolean;
+  /** Search every cell kind at each shared R_C even where one kind alone shows that none fits
+   *  (see blockedKind in size.ts): the same verdict, found more slowly. For checking that
+   *  shortcut. */
+  fullSearch?: boolean;
 }
 
 /** One checked constraint at its worst corner. */
