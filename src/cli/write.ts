@@ -113,6 +113,11 @@ let tempCounter = 0;
 const WRITE_BUFFER_BYTES = 1 << 18;
 /** UTF-16 code units that always fit the buffer (UTF-8 takes at most 3 bytes for one). */
 const UNITS_PER_BUFFER = Math.floor(WRITE_BUFFER_BYTES / 3);
+/** Pieces are joined into batches of at least this many code units before they are encoded: a
+ *  Buffer.write call costs about as much as encoding a few hundred characters, so one call a
+ *  netlist line would be mostly call overhead, while a batch this small is still joined while
+ *  its pieces are in the processor's cache. */
+const BATCH_UNITS = 1 << 14;
 
 /** A failure of the producer of a file's text (not of the file system). */
 class ProducerFailure extends Error {
@@ -143,22 +148,42 @@ function writeText(fs: WriteFs, fd: number, f: OutputFile): void {
     }
     at = 0;
   };
-  const put = (piece: string) => {
-    if (piece.length * 3 <= WRITE_BUFFER_BYTES - at) {
-      at += buf.write(piece, at);
+  const encode = (text: string) => {
+    if (text.length * 3 <= WRITE_BUFFER_BYTES - at) {
+      at += buf.write(text, at);
       return;
     }
     if (at > 0) flush();
-    // A long piece goes through the buffer a slice at a time, never split between the two
+    // A long text goes through the buffer a slice at a time, never split between the two
     // halves of a surrogate pair.
-    for (let i = 0; i < piece.length; ) {
-      let end = Math.min(piece.length, i + UNITS_PER_BUFFER);
-      const last = piece.charCodeAt(end - 1);
-      if (end < piece.length && last >= 0xd800 && last <= 0xdbff) end--;
-      at = buf.write(i === 0 && end === piece.length ? piece : piece.slice(i, end), 0);
+    for (let i = 0; i < text.length; ) {
+      let end = Math.min(text.length, i + UNITS_PER_BUFFER);
+      const last = text.charCodeAt(end - 1);
+      if (end < text.length && last >= 0xd800 && last <= 0xdbff) end--;
+      at = buf.write(i === 0 && end === text.length ? text : text.slice(i, end), 0);
       i = end;
-      if (i < piece.length) flush();
+      if (i < text.length) flush();
     }
+  };
+  // The text not encoded yet: pieces are joined (a rope, so joining copies nothing) until they
+  // make a batch. A high surrogate that ends a batch waits for the piece that completes its pair.
+  let batch = "";
+  const drain = (final: boolean) => {
+    let text = batch;
+    batch = "";
+    const last = text.charCodeAt(text.length - 1);
+    if (!final && last >= 0xd800 && last <= 0xdbff) {
+      batch = text.slice(-1);
+      text = text.slice(0, -1);
+    }
+    encode(text);
+  };
+  const put = (piece: string) => {
+    // A long piece is not joined to the short ones before it (joined, it would be copied when
+    // it is sliced into the buffer): they go first, and it is encoded as it stands.
+    if (piece.length >= BATCH_UNITS && batch !== "") drain(false);
+    batch += piece;
+    if (batch.length >= BATCH_UNITS) drain(false);
   };
   if (!f.writeTo) put(f.content);
   else {
@@ -169,6 +194,7 @@ function writeText(fs: WriteFs, fd: number, f: OutputFile): void {
       throw new ProducerFailure(f.name, e);
     }
   }
+  if (batch !== "") drain(true);
   if (at > 0) flush();
 }
 

@@ -36,6 +36,9 @@ function ratingText(watts: number | undefined): string {
 }
 
 const rowsMade = new WeakMap<SizedDesign, BomRow[]>();
+/** Part objects whose line makeBomRows remembers (placed cells share a few; hand-built lists
+ *  may hold one a part). */
+const PART_OBJECTS_KEPT = 4096;
 
 /** The parts list's rows, made once a design (the parts list, the report and the JSON all read
  *  them). */
@@ -48,8 +51,9 @@ export function bomRows(design: SizedDesign): BomRow[] {
 function makeBomRows(design: SizedDesign): BomRow[] {
   type Group = { kind: BomRow["kind"]; value: string; tolerance: string; rating: string; description: string; partNumber: string; sortValue: number; designators: string[] };
   // Parts alike on the list share one line: grouped by their texts as printed. Parts with the
-  // same raw figures print alike, so each raw combination is formatted once: components are
-  // looked up by value, then among the few raw combinations seen with that value.
+  // same raw figures print alike, so each raw combination is formatted once: a part is looked
+  // up first as itself (placed cells alike share their part entries, so most parts are one of a
+  // few objects), then by value among the few raw combinations seen with that value.
   const groups = new Map<string, Group>();
   const groupOf = (p: Omit<Group, "designators">): Group => {
     const key = [p.kind, p.value, p.tolerance, p.rating, p.description, p.partNumber].join("\u0000");
@@ -57,9 +61,11 @@ function makeBomRows(design: SizedDesign): BomRow[] {
     if (!g) groups.set(key, (g = { ...p, designators: [] }));
     return g;
   };
-  type Seen = { c: SizedDesign["components"][number]; group: Group };
+  type Part = SizedDesign["components"][number];
+  type Seen = { c: Part; group: Group };
+  const groupOfPart = new Map<Part, Group>();
   const seenByValue = new Map<number, Seen[]>();
-  const alike = (a: SizedDesign["components"][number], b: SizedDesign["components"][number]) =>
+  const alike = (a: Part, b: Part) =>
     a.kind === b.kind &&
     a.valueText === b.valueText &&
     a.partNumber === b.partNumber &&
@@ -68,28 +74,29 @@ function makeBomRows(design: SizedDesign): BomRow[] {
     Object.is(a.tolerance, b.tolerance) &&
     Object.is(a.powerRatingWatts, b.powerRatingWatts) &&
     Object.is(a.voltageRatingVolts, b.voltageRatingVolts);
-  eachComponent(design, (c, designator) => {
+  const lineOf = (c: Part): Group => {
     let seen = seenByValue.get(c.value);
     if (!seen) seenByValue.set(c.value, (seen = []));
-    let group: Group | undefined;
-    for (const x of seen) {
-      if (alike(x.c, c)) {
-        group = x.group;
-        break;
-      }
-    }
+    for (const x of seen) if (alike(x.c, c)) return x.group;
+    const group = groupOf({
+      kind: c.kind,
+      value: c.kind === "R" ? eng(c.value, "Ω") : c.kind === "C" ? eng(c.value, "F") : c.partNumber ?? c.valueText,
+      tolerance: c.tolerance !== undefined ? `±${Math.round(c.tolerance * 1000) / 10} %` : "",
+      rating: c.kind === "R" ? ratingText(c.powerRatingWatts) : c.kind === "C" ? (c.voltageRatingVolts !== undefined ? `${c.voltageRatingVolts} V` : "") : "",
+      description: c.description,
+      partNumber: c.partNumber ?? "",
+      sortValue: c.value,
+    });
+    // Bounded: past a few raw combinations a value, each part is grouped by its texts alone.
+    if (seen.length < 16) seen.push({ c, group });
+    return group;
+  };
+  eachComponent(design, (c, designator) => {
+    let group = groupOfPart.get(c);
+    // Bounded too: a design whose every part is an object of its own is grouped by value.
     if (!group) {
-      group = groupOf({
-        kind: c.kind,
-        value: c.kind === "R" ? eng(c.value, "Ω") : c.kind === "C" ? eng(c.value, "F") : c.partNumber ?? c.valueText,
-        tolerance: c.tolerance !== undefined ? `±${Math.round(c.tolerance * 1000) / 10} %` : "",
-        rating: c.kind === "R" ? ratingText(c.powerRatingWatts) : c.kind === "C" ? (c.voltageRatingVolts !== undefined ? `${c.voltageRatingVolts} V` : "") : "",
-        description: c.description,
-        partNumber: c.partNumber ?? "",
-        sortValue: c.value,
-      });
-      // Bounded: past a few raw combinations a value, each part is grouped by its texts alone.
-      if (seen.length < 16) seen.push({ c, group });
+      group = lineOf(c);
+      if (groupOfPart.size < PART_OBJECTS_KEPT) groupOfPart.set(c, group);
     }
     group.designators.push(designator);
   });
@@ -169,11 +176,15 @@ function letterPrefixLength(d: string): number {
 function designatorNumber(d: string, prefix: string): number {
   const p = prefix.length;
   if (d.length <= p || !d.startsWith(prefix)) return -1;
+  let n = 0;
   for (let i = p; i < d.length; i++) {
     const c = d.charCodeAt(i);
     if (c < 48 || c > 57) return -1;
+    n = n * 10 + (c - 48);
   }
-  return Number(d.slice(p));
+  // Read digit by digit, the number is exact up to 15 digits; longer ones are read as Number
+  // reads them.
+  return d.length - p <= 15 ? n : Number(d.slice(p));
 }
 
 export function bomTotals(rows: BomRow[]) {

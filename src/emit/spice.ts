@@ -104,17 +104,19 @@ export function tiesOf(design: SizedDesign): Tie[] {
 }
 
 function findTies(design: SizedDesign): Tie[] {
-  const ties: Tie[] = [];
+  const tied: { net: number; value: 0 | 1 }[] = [];
+  for (const net of design.netlist.nets) {
+    if (net.driver.kind !== "tie") continue;
+    if (net.loads.length === 0 && net.outputPort === undefined) continue;
+    tied.push({ net: net.index, value: net.driver.value });
+  }
+  if (!tied.length) return [];
+  // Tie resistors are numbered after the cells' resistors (counted only when there are ties).
   let next = 0;
   eachComponent(design, (c) => {
     if (c.kind === "R") next++;
   });
-  for (const net of design.netlist.nets) {
-    if (net.driver.kind !== "tie") continue;
-    if (net.loads.length === 0 && net.outputPort === undefined) continue;
-    ties.push({ net: net.index, value: net.driver.value, designator: `R${++next}`, ohms: 1000 });
-  }
-  return ties;
+  return tied.map((t) => ({ ...t, designator: `R${++next}`, ohms: 1000 }));
 }
 
 export function writeNetlist(out: TextSink, ctx: EmitContext, names: SpiceNames): void {
@@ -368,15 +370,20 @@ export function writeTestbench(out: TextSink, ctx: EmitContext, names: SpiceName
   const stateNets = sampledStateNets(d, names, st);
   const tri = (x: 0 | 1 | "X") => (x === "X" ? "x" : String(x));
   const phaseOf = (i: number) => (st.clock ? (i === 0 ? "start, clock low: the initial state released" : ["data change, clock low: the state just before the next rising edge", "clock rises", "clock high", "clock falls"][(i - 1) % 4]!) : "");
+  // A step's .meas lines differ only in the step's number and time: the part of each line
+  // between them is made once for all steps, and each line is its own piece (a design with
+  // thousands of outputs makes steps of hundreds of kilobytes, which the writer batches).
+  const outputMeas = names.outputs.map((o2) => `_${o2} FIND v(${o2}) AT=`);
   const writeSteps = (o: TextSink) => {
     for (let i = 0; i < st.vectors.length; i++) {
       const stateExpected = stateNets.length ? stateNets.map((s) => tri(st.stateExpected![i]![s.index]!)).join("") : "";
       const phase = phaseOf(i);
       const at = spiceNumber(sampleTime(i, T), 8);
-      let text = `* step ${i} at ${eng(sampleTime(i, T), "s", 4)}: inputs ${st.vectors[i]!.join("")} -> expect ${st.expected[i]!.map(tri).join("")}${stateExpected ? `, state ${stateExpected}` : ""}${phase ? ` (${phase})` : ""}\n`;
-      for (const o2 of names.outputs) text += `.meas tran s${i}_${o2} FIND v(${o2}) AT=${at}\n`;
-      for (const s of stateNets) text += `.meas tran ${stateMeasureName(i, names.net[s.net]!)} FIND v(${s.node}) AT=${at}\n`;
-      o(text);
+      o(`* step ${i} at ${eng(sampleTime(i, T), "s", 4)}: inputs ${st.vectors[i]!.join("")} -> expect ${st.expected[i]!.map(tri).join("")}${stateExpected ? `, state ${stateExpected}` : ""}${phase ? ` (${phase})` : ""}\n`);
+      const head = `.meas tran s${i}`;
+      const tail = `${at}\n`;
+      for (const m of outputMeas) o(head + m + tail);
+      for (const s of stateNets) o(`.meas tran ${stateMeasureName(i, names.net[s.net]!)} FIND v(${s.node}) AT=${tail}`);
     }
   };
   const ics = initialConditions(d, names, st.initial);

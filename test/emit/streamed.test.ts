@@ -98,6 +98,20 @@ describe("writing a text produced in pieces", () => {
     expect(textOf((out) => file.writeTo!(out))).toBe(text);
   });
 
+  it("writes a pair of surrogates split between two pieces as its one UTF-8 character (RFC 3629), however the pieces fall in batches", () => {
+    const clef = "𝄞"; // U+1D11E: the pair D834 DD1E, F0 9D 84 9E in UTF-8
+    const pieces = [`* ${GENERATED_MARKER} 0.1.0\n`];
+    // Short pieces, each ending with the first half of a pair that the next piece completes,
+    // and long pieces (longer than a batch) split the same way.
+    for (let i = 0; i < 3000; i++) pieces.push(`line ${i} ${clef[0]}`, `${clef[1]} end\n`);
+    pieces.push("c".repeat(40_000) + clef[0], clef[1] + "d".repeat(40_000) + "\n");
+    const text = pieces.join("");
+    const dir = tmp();
+    const w = writeOutputs(dir, [producedFile("split.cir", "test", (out) => pieces.forEach((p) => out(p)))]);
+    expect(w.error).toBeUndefined();
+    expect(readFileSync(join(dir, "split.cir")).equals(Buffer.from(text, "utf8"))).toBe(true);
+  });
+
   it("a producer that fails is an internal error: nothing is written, earlier files stay, no temporary file is left", () => {
     const dir = tmp();
     const good = `* ${GENERATED_MARKER} 0.1.0\nold\n`;
