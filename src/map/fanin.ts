@@ -3,7 +3,22 @@
 import type { LogicGraph } from "../logic/graph.js";
 import { rebuild, type GraphBuilder } from "../optimize/builder.js";
 
+/** The last split of each graph, by its limit and state signals: the optimizer prices a graph
+ *  and the pipeline maps it, for two families, each splitting it again. Graphs are not changed
+ *  once made, so a split graph is handed out again as it is (its readers only read it). */
+const lastSplit = new WeakMap<LogicGraph, { stateNames: readonly string[]; maxFanin: number; split: LogicGraph }>();
+
+const sameNames = (a: readonly string[], b: readonly string[]) => a.length === b.length && a.every((x, i) => x === b[i]);
+
 export function limitFanin(g: LogicGraph, stateNames: readonly string[], maxFanin: number): LogicGraph {
+  const last = lastSplit.get(g);
+  if (last && last.maxFanin === maxFanin && sameNames(last.stateNames, stateNames)) return last.split;
+  const split = splitGates(g, stateNames, maxFanin);
+  lastSplit.set(g, { stateNames: [...stateNames], maxFanin, split });
+  return split;
+}
+
+function splitGates(g: LogicGraph, stateNames: readonly string[], maxFanin: number): LogicGraph {
   const split = (b: GraphBuilder, op: "and" | "or", args: number[]): number => {
     if (args.length <= maxFanin) return b.op(op, args);
     // Balanced: as few groups as possible, of near-equal size.

@@ -9,6 +9,7 @@ import { buildLogicGraph, seededRandom, type LogicGraph } from "../../src/logic/
 import { optimizeLogic } from "../../src/optimize/index.js";
 import { GraphBuilder } from "../../src/optimize/builder.js";
 import { dtlCostModel, mapToCells, nand2CostModel, tallyMapping, tallyParts, type CellChoice, type CostModel, type MapOptions } from "../../src/map/index.js";
+import { limitFanin } from "../../src/map/fanin.js";
 import { exprArb, sourceOf } from "../support/exprs.js";
 
 const NAMES = ["a", "b", "c", "d", "e"];
@@ -82,6 +83,18 @@ describe("counted tally equals the built netlist's tally", () => {
     const m = mapToCells(g, opts);
     expect(m.diagnostics.map((d) => d.message).join(" ")).toMatch(/[1-9]\d* cells? duplicated/);
     expectSameTally(g, opts);
+  });
+
+  it("a graph split again under another fan-in limit gets that limit's split, not the last one", () => {
+    // limitFanin hands out its last split of a graph again; the oracle is the split of a fresh
+    // copy of the graph (nothing kept for it) and, for the tally, the full mapping.
+    const g = fanoutGraph(5, 200);
+    for (const maxFanin of [3, 8, 3, 2]) {
+      const split = limitFanin(g, [], maxFanin);
+      expect(split).toEqual(limitFanin({ ...g }, [], maxFanin));
+      expect(Math.max(...split.nodes.map((n) => n.fanins.length))).toBeLessThanOrEqual(maxFanin);
+      expectSameTally(g, { stateNames: [], maxFanin, maxFanout: 4, cells: "mixed", costModel: dtlCostModel() });
+    }
   });
 
   it("is not counted where the count could differ from the mapping: wired-AND, state signals, fractional weights", () => {
