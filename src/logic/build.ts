@@ -185,39 +185,53 @@ function compileExpr(
   nodes: LogicNode[],
   resolve: (name: string, span: { start: number; length: number }) => number | undefined,
 ): number | undefined {
-  // Post-order traversal with an explicit stack; results on a value stack.
-  const work: { e: Expr; expanded: boolean }[] = [{ e: root, expanded: false }];
-  const values: (number | undefined)[] = [];
+  // A reference (the commonest operand) needs no traversal.
+  if (root.kind === "ref") return resolve(root.name, root.span);
+  // Post-order traversal with an explicit stack of expressions (and whether each one's operands
+  // are done); results on a value stack, -1 for an operand that did not resolve.
+  const work: Expr[] = [root];
+  const expanded: boolean[] = [false];
+  const values: number[] = [];
   let failed = false;
   while (work.length) {
-    const item = work.pop()!;
-    const e = item.e;
+    const e = work.pop()!;
+    const done = expanded.pop()!;
     if (e.kind === "ref") {
       const id = resolve(e.name, e.span);
       if (id === undefined) failed = true;
-      values.push(id);
+      values.push(id ?? -1);
       continue;
     }
     if (e.kind === "const") {
       values.push(nodes.push({ op: e.value ? "const1" : "const0", fanins: [] }) - 1);
       continue;
     }
-    const args = e.kind === "not" ? [e.arg] : e.args;
-    if (!item.expanded) {
-      work.push({ e, expanded: true });
-      for (let i = args.length - 1; i >= 0; i--) work.push({ e: args[i]!, expanded: false });
+    const argc = e.kind === "not" ? 1 : e.args.length;
+    if (!done) {
+      work.push(e);
+      expanded.push(true);
+      if (e.kind === "not") {
+        work.push(e.arg);
+        expanded.push(false);
+      } else {
+        for (let i = argc - 1; i >= 0; i--) {
+          work.push(e.args[i]!);
+          expanded.push(false);
+        }
+      }
       continue;
     }
-    const operands = values.splice(values.length - args.length, args.length);
-    if (operands.some((v) => v === undefined)) {
-      values.push(undefined);
+    const from = values.length - argc;
+    let missing = false;
+    for (let i = from; i < values.length; i++) if (values[i] === -1) missing = true;
+    if (missing) {
+      values.length = from;
+      values.push(-1);
       continue;
     }
-    const fanins = operands as number[];
-    if (e.kind !== "not" && fanins.length === 1) {
-      values.push(fanins[0]);
-      continue;
-    }
+    if (e.kind !== "not" && argc === 1) continue; // a one-operand and/or/xor is its operand
+    const fanins = values.slice(from);
+    values.length = from;
     values.push(nodes.push({ op: e.kind, fanins }) - 1);
   }
   return failed ? undefined : values[0];

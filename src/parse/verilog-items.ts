@@ -486,15 +486,57 @@ function recordingGrammarFor(start: StartRule): nearley.Grammar {
 
 /** Post-order program: a value >= 0 is `rule * 16 + argc`; a negative value -(i+1) is token i. */
 type Program = number[];
-const shapes = new Map<string, Program>();
 
-function shapeKey(tokens: readonly Token[]): string {
-  let key = "";
-  for (const t of tokens) {
-    const ty = t.type;
-    key += (ty === "ident" || ty === "decimal" || ty === "based" || ty === "real" ? "\u0001" + ty : t.text) + "\u0000";
+/**
+ * The shape cache, a trie over token codes: a token of a type the grammar matches by type
+ * (`ident`, numbers) has the code of its type, any other token the code of its text. Walking it
+ * allocates nothing per item (a joined string key cost a string per item).
+ */
+interface ShapeNode {
+  next: Map<number, ShapeNode>;
+  program?: Program;
+}
+const shapeRoot: ShapeNode = { next: new Map() };
+let shapeCount = 0;
+/** Codes of token texts seen in cached shapes (codes 0-3 are the token types matched by type). */
+const textCodes = new Map<string, number>();
+
+function typeCode(ty: string | undefined): number {
+  return ty === "ident" ? 0 : ty === "decimal" ? 1 : ty === "based" ? 2 : ty === "real" ? 3 : -1;
+}
+
+function cachedProgram(tokens: readonly Token[]): Program | undefined {
+  let node: ShapeNode | undefined = shapeRoot;
+  for (let i = 0; i < tokens.length && node; i++) {
+    const t = tokens[i]!;
+    let code = typeCode(t.type);
+    if (code < 0) {
+      const c = textCodes.get(t.text);
+      if (c === undefined) return undefined;
+      code = c;
+    }
+    node = node.next.get(code);
   }
-  return key;
+  return node?.program;
+}
+
+function cacheProgram(tokens: readonly Token[], program: Program): void {
+  let node = shapeRoot;
+  for (const t of tokens) {
+    let code = typeCode(t.type);
+    if (code < 0) {
+      code = textCodes.get(t.text) ?? textCodes.size + 4;
+      textCodes.set(t.text, code);
+    }
+    let child = node.next.get(code);
+    if (!child) {
+      child = { next: new Map() };
+      node.next.set(code, child);
+    }
+    node = child;
+  }
+  if (!node.program) shapeCount++;
+  node.program = program;
 }
 
 function compileProgram(root: Recorded, tokens: readonly Token[]): Program {
@@ -548,12 +590,11 @@ function replay(program: Program, tokens: readonly Token[]): unknown {
 export function parseItem(tokens: readonly Token[], useShapes = true): ParseOutcome {
   const start = startRuleFor(tokens[0]!);
   const cacheable = useShapes && tokens.length <= SHAPE_MAX_TOKENS;
-  const key = cacheable ? shapeKey(tokens) : "";
   if (cacheable) {
-    const program = shapes.get(key);
+    const program = cachedProgram(tokens);
     if (program) return { ok: true, item: replay(program, tokens) as VItem };
   }
-  const recording = cacheable && shapes.size < SHAPE_CACHE_LIMIT;
+  const recording = cacheable && shapeCount < SHAPE_CACHE_LIMIT;
   const parser = new nearley.Parser(recording ? recordingGrammarFor(start) : grammarFor(start), { lexer: feed });
   // nearley's own error text walks the whole parse stack; we describe errors ourselves.
   const p = parser as unknown as {
@@ -578,7 +619,7 @@ export function parseItem(tokens: readonly Token[], useShapes = true): ParseOutc
   if (!threw && parser.results.length > 0) {
     if (!recording) return { ok: true, item: parser.results[0] as VItem };
     const program = compileProgram(parser.results[0] as Recorded, tokens);
-    shapes.set(key, program);
+    cacheProgram(tokens, program);
     return { ok: true, item: replay(program, tokens) as VItem };
   }
   const column = p.table[p.current];
