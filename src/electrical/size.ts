@@ -260,8 +260,9 @@ function blockedKind(u: UniformEnv, kinds: readonly CellDefinition[], sitsOf: Re
     // values; the best few are then judged with those kinds sized at their R_C.
     const free = d.freeKey;
     const candidates = [...(r.candidates ?? [])];
-    for (const rc of new Set(candidates.map((v) => v.rcOhms!)))
-      for (const end of [u.grid[0]!, u.grid[u.grid.length - 1]!]) candidates.push({ ...capFixed(u, d), rcOhms: rc, [free]: end });
+    const firstAt = new Map<number, CellValues>();
+    for (const v of candidates) if (!firstAt.has(v.rcOhms!)) firstAt.set(v.rcOhms!, v);
+    for (const v of firstAt.values()) for (const end of [u.grid[0]!, u.grid[u.grid.length - 1]!]) candidates.push({ ...v, [free]: end });
     const marginAt = (values: CellValues, chosen: Map<string, CellValues>) => closestOf(values, evaluateType(sits, values, makeUniformCtx(u, d, chosen, none, { sharedRcOhms: values.rcOhms! })));
     const ranked = candidates.map((values) => ({ values, margin: marginAt(values, none).worstMargin })).sort((a, b) => b.margin - a.margin);
     const sizedAt = new Map<number, Map<string, CellValues>>();
@@ -282,7 +283,9 @@ function blockedKind(u: UniformEnv, kinds: readonly CellDefinition[], sitsOf: Re
       const c = marginAt(values, chosen);
       if (!failure.closest || c.worstMargin > failure.closest.worstMargin) failure.closest = c;
     }
-    return failure;
+    // No candidate to name (the search stopped before weighing one): the full search gives the
+    // failure, with the closest candidate it finds.
+    return failure.closest && failure.closest.failing.length > 0 ? failure : undefined;
   }
   return undefined;
 }
