@@ -223,6 +223,10 @@ function uniformSituations(netlist: CellNetlist, defs: readonly CellDefinition[]
   return buildSituations(netlist, defs, { group: true, ...(u.o.fanoutOverride !== undefined ? { fanoutOverride: u.o.fanoutOverride } : {}), ...(u.wired === false ? { wired: false } : {}) });
 }
 
+/** Candidates blockedKind judges with the other kinds sized (a search of each kind before it
+ *  at each candidate's R_C). */
+const BLOCKED_CANDIDATES_JUDGED = 8;
+
 /** A basic kind that no shared R_C lets be sized, found with one search instead of one search of
  *  every kind at each R_C (sizeUniform's stage A, which on a large mixed design that cannot be
  *  sized takes most of the failure's time).
@@ -239,10 +243,6 @@ function uniformSituations(netlist: CellNetlist, defs: readonly CellDefinition[]
  *  judged with the other kinds' loads at their provisional values (as stage A takes a kind not
  *  sized yet), and the best one's margins are then worked out at its R_C with those kinds sized
  *  there as stage A sizes them, so the message's shortfall is that of a real candidate. */
-/** Candidates blockedKind judges with the other kinds sized (a search of each kind before it
- *  at each candidate's R_C). */
-const BLOCKED_CANDIDATES_JUDGED = 8;
-
 function blockedKind(u: UniformEnv, kinds: readonly CellDefinition[], sitsOf: ReadonlyMap<string, Situation[]>, situations: readonly Situation[]): Failure | undefined {
   if (u.gateDelayMaxSeconds !== undefined || u.plan || situations.some((s) => s.tiedCollectors > 0 || !s.ownsPullUp || s.inputWiredCollectors > 1)) return undefined;
   const none = new Map<string, CellValues>();
